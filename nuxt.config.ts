@@ -1,0 +1,43 @@
+// Umbrafield — Nuxt configuration. Everything is served from this machine: no CDN, fonts ship with the app.
+export default defineNuxtConfig({
+  compatibilityDate: '2025-07-15',
+  srcDir: '.',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  css: [
+    '@fontsource/work-sans/400.css',
+    '@fontsource/work-sans/500.css',
+    '@fontsource/work-sans/600.css',
+    '@fontsource/work-sans/700.css',
+  ],
+  tailwindcss: { cssPath: '~/assets/css/main.css', viewer: false },
+  typescript: { strict: true, typeCheck: false },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en-GB' },
+      title: 'Umbrafield',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'Planning desk for eclipse expeditions' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/logo.svg' }],
+    },
+  },
+  runtimeConfig: {
+    // NUXT_DB_PATH
+    dbPath: 'data/umbrafield.sqlite',
+    // NUXT_SEED: 'demo' seeds the invented demo scenario at start-up (idempotent)
+    seed: '',
+    // NUXT_PUBLIC_APP_URL
+    public: { appUrl: 'http://localhost:3000' },
+  },
+  nitro: {
+    externals: {
+      traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat'],
+    },
+  },
+  vite: {
+    optimizeDeps: { include: ['maplibre-gl'] },
+  },
+})

@@ -1,0 +1,28 @@
+import { LoginBody } from '#shared/schemas/auth'
+import { assertNotThrottled, recordFailure, recordSuccess, ThrottledError } from '../../services/accounts'
+
+const GENERIC = 'E-mail or password is not right'
+
+export default defineEventHandler(async (event) => {
+  const { email, password } = await readBodyAs(event, LoginBody)
+  const db = useDb()
+  const ip = clientIp(event)
+  try {
+    await assertNotThrottled(db, email, ip)
+  } catch (e) {
+    if (e instanceof ThrottledError) {
+      setResponseHeader(event, 'Retry-After', e.retryAfterSec)
+      throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: 'Too many failed attempts. Try again in 15 minutes.' })
+    }
+    throw e
+  }
+  const user = await db.selectFrom('users').selectAll().where('email', '=', email).executeTakeFirst()
+  const ok = user ? await verifyPassword(user.password_hash, password) : false
+  if (!user || !ok) {
+    await recordFailure(db, email, ip)
+    throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: GENERIC })
+  }
+  await recordSuccess(db, user, ip)
+  await setUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, loggedInAt: new Date().toISOString() })
+  return toPublicUser(user)
+})

@@ -1,0 +1,23 @@
+import { AccountPatch } from '#shared/schemas/auth'
+import { audit } from '../services/audit'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const patch = await readBodyAs(event, AccountPatch)
+  const db = useDb()
+  const set: { name?: string; password_hash?: string } = {}
+  if (patch.name) set.name = patch.name
+  if (patch.newPassword) {
+    if (!(await verifyPassword(user.password_hash, patch.currentPassword ?? ''))) {
+      throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'Current password is not right', data: { fields: { currentPassword: 'Current password is not right' } } })
+    }
+    set.password_hash = await hashPassword(patch.newPassword)
+  }
+  if (Object.keys(set).length === 0) return toPublicUser(user)
+  const updated = await db.transaction().execute(async (trx) => {
+    const u = await trx.updateTable('users').set(set).where('id', '=', user.id).returningAll().executeTakeFirstOrThrow()
+    await audit(trx, { action: 'account_update', actorUserId: user.id, subjectUserId: user.id, ip: clientIp(event), detail: { fields: Object.keys(set) } })
+    return u
+  })
+  return toPublicUser(updated)
+})

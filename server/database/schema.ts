@@ -1,0 +1,65 @@
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+
+/** Roles, from least to most privileged. Stored in users.role. */
+export const ROLES = ['traveller', 'guide', 'organiser'] as const
+export type Role = (typeof ROLES)[number]
+
+export interface UsersTable {
+  id: Generated<number>
+  email: string
+  name: string
+  password_hash: string
+  role: Role
+  /** UTC ISO 8601. */
+  created_at: ColumnType<string, string | undefined, never>
+}
+
+export interface AuditLogTable {
+  id: Generated<number>
+  /** UTC ISO 8601. */
+  at: ColumnType<string, string | undefined, never>
+  action: string
+  actor_user_id: number | null
+  subject_user_id: number | null
+  ip: string | null
+  /** JSON text. */
+  detail: string | null
+}
+
+export interface SignInFailuresTable {
+  id: Generated<number>
+  email: string
+  ip: string
+  /** UTC ISO 8601. */
+  at: string
+}
+
+export interface ElementSetsTable {
+  id: Generated<number>
+  eclipse_id: string
+  /** The published element set, JSON text. */
+  elements: string
+  source: string
+  created_by: number | null
+  created_at: ColumnType<string, string | undefined, never>
+}
+
+export interface EclipseSettingsTable {
+  eclipse_id: string
+  /** ΔT override in seconds, or null for the model. */
+  delta_t_sec: number | null
+  updated_by: number | null
+  updated_at: string
+}
+
+export interface Database {
+  users: UsersTable
+  audit_log: AuditLogTable
+  sign_in_failures: SignInFailuresTable
+  element_sets: ElementSetsTable
+  eclipse_settings: EclipseSettingsTable
+}
+
+export type User = Selectable<UsersTable>
+export type NewUser = Insertable<UsersTable>
+export type UserUpdate = Updateable<UsersTable>

@@ -1,0 +1,73 @@
+import { randomBytes } from 'node:crypto'
+import type { Kysely } from 'kysely'
+import type { Database, Role, User } from '../database/schema'
+import { audit } from './audit'
+
+/** Sign-in throttling: failures inside the window, per e-mail and per IP. Successful sign-ins clear the e-mail's count. */
+export const THROTTLE = { windowMin: 15, perEmail: 5, perIp: 30 }
+
+export class ThrottledError extends Error {
+  constructor(public retryAfterSec: number) { super('Too many failed sign-in attempts') }
+}
+
+const windowStart = () => new Date(Date.now() - THROTTLE.windowMin * 60_000).toISOString()
+
+export async function assertNotThrottled(db: Kysely<Database>, email: string, ip: string): Promise<void> {
+  const since = windowStart()
+  const [{ n: byEmail }] = await db.selectFrom('sign_in_failures').select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('email', '=', email).where('at', '>', since).execute() as [{ n: number }]
+  const [{ n: byIp }] = await db.selectFrom('sign_in_failures').select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('ip', '=', ip).where('at', '>', since).execute() as [{ n: number }]
+  if (byEmail >= THROTTLE.perEmail || byIp >= THROTTLE.perIp) throw new ThrottledError(THROTTLE.windowMin * 60)
+}
+
+export async function recordFailure(db: Kysely<Database>, email: string, ip: string): Promise<void> {
+  await db.transaction().execute(async (trx) => {
+    await trx.insertInto('sign_in_failures').values({ email, ip, at: new Date().toISOString() }).execute()
+    await trx.deleteFrom('sign_in_failures').where('at', '<', new Date(Date.now() - 24 * 3600_000).toISOString()).execute()
+    await audit(trx, { action: 'sign_in_failed', ip, detail: { email } })
+  })
+}
+
+export async function recordSuccess(db: Kysely<Database>, user: User, ip: string): Promise<void> {
+  await db.transaction().execute(async (trx) => {
+    await trx.deleteFrom('sign_in_failures').where('email', '=', user.email).execute()
+    await audit(trx, { action: 'sign_in', actorUserId: user.id, subjectUserId: user.id, ip })
+  })
+}
+
+export class EmailTakenError extends Error {}
+
+export async function createUser(db: Kysely<Database>, input: { name: string; email: string; passwordHash: string; role: Role },
+  actorId: number | null, ip: string | null, action: 'sign_up' | 'invite'): Promise<User> {
+  return db.transaction().execute(async (trx) => {
+    const exists = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst()
+    if (exists) throw new EmailTakenError('That e-mail address already has an account')
+    const user = await trx.insertInto('users').values({
+      name: input.name, email: input.email, password_hash: input.passwordHash, role: input.role,
+    }).returningAll().executeTakeFirstOrThrow()
+    await audit(trx, { action, actorUserId: actorId ?? user.id, subjectUserId: user.id, ip, detail: { role: input.role } })
+    return user
+  })
+}
+
+export async function changeRole(db: Kysely<Database>, actor: User, userId: number, role: Role, ip: string): Promise<User | null> {
+  return db.transaction().execute(async (trx) => {
+    const target = await trx.selectFrom('users').selectAll().where('id', '=', userId).executeTakeFirst()
+    if (!target) return null
+    if (target.role === role) return target
+    if (target.role === 'organiser' && role !== 'organiser') {
+      const [{ n }] = await trx.selectFrom('users').select((eb) => eb.fn.countAll<number>().as('n'))
+        .where('role', '=', 'organiser').execute() as [{ n: number }]
+      if (n <= 1) throw new Error('The last organiser cannot be demoted')
+    }
+    const updated = await trx.updateTable('users').set({ role }).where('id', '=', userId).returningAll().executeTakeFirstOrThrow()
+    await audit(trx, { action: 'role_change', actorUserId: actor.id, subjectUserId: userId, ip, detail: { from: target.role, to: role } })
+    return updated
+  })
+}
+
+/** A readable one-time password for invited accounts (shown once to the organiser). */
+export function temporaryPassword(): string {
+  return randomBytes(9).toString('base64url')
+}

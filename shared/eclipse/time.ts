@@ -1,0 +1,35 @@
+import { JD_UNIX_EPOCH } from './constants'
+import type { BesselianElements } from './types'
+
+/** Julian Day (TDT) of 0h TDT on a YYYY-MM-DD date (proleptic Gregorian). */
+export function jdOfDate(date: string): number {
+  const m = /^(-?\d{1,4})-(\d{2})-(\d{2})$/.exec(date)
+  if (!m) throw new Error(`bad date "${date}", expected YYYY-MM-DD`)
+  const ms = Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3]))
+  return ms / 86_400_000 + JD_UNIX_EPOCH
+}
+
+/** Julian Day (TDT) of the element set's t0. */
+export function jdT0(el: BesselianElements): number {
+  return jdOfDate(el.date) + el.t0Tdt / 24
+}
+
+/**
+ * UTC instant (ms since the Unix epoch) of t hours after t0, for a given ΔT (s).
+ * UT1 is used for UTC; they differ by less than 0.9 s (see uncertainty model).
+ */
+export function tToUtcMs(el: BesselianElements, tHours: number, deltaTSec: number): number {
+  return (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000 + tHours * 3_600_000 - deltaTSec * 1000
+}
+
+/** Inverse of {@link tToUtcMs}: hours after t0 (TDT) of a UTC instant. */
+export function utcMsToT(el: BesselianElements, utcMs: number, deltaTSec: number): number {
+  return (utcMs + deltaTSec * 1000 - (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000) / 3_600_000
+}
+
+/** ISO 8601 UTC with tenths of a second, e.g. 2024-04-08T19:16:17.2Z. */
+export function isoTenths(utcMs: number): string {
+  const rounded = Math.round(utcMs / 100) * 100
+  const iso = new Date(rounded).toISOString() // ...:17.200Z
+  return iso.slice(0, 21) + 'Z'
+}

@@ -1,0 +1,50 @@
+import { z } from 'zod'
+
+export const ROLE_VALUES = ['traveller', 'guide', 'organiser'] as const
+export const RoleSchema = z.enum(ROLE_VALUES, { error: 'Choose traveller, guide or organiser' })
+export type RoleName = z.infer<typeof RoleSchema>
+
+const email = z.string({ error: 'Enter a valid e-mail address' }).trim().toLowerCase().email('Enter a valid e-mail address').max(254)
+
+export const LoginBody = z.object({
+  email,
+  password: z.string({ error: 'Enter your password' }).min(1, 'Enter your password').max(200),
+})
+export type LoginInput = z.infer<typeof LoginBody>
+
+export const RegisterBody = z.object({
+  name: z.string({ error: 'Enter your name' }).trim().min(1, 'Enter your name').max(120),
+  email,
+  password: z.string({ error: 'Use at least 10 characters' }).min(10, 'Use at least 10 characters').max(200),
+})
+export type RegisterInput = z.infer<typeof RegisterBody>
+
+export const InviteBody = z.object({
+  name: z.string({ error: 'Enter a name' }).trim().min(1, 'Enter a name').max(120),
+  email,
+  role: z.enum(['guide', 'organiser'], { error: 'Choose guide or organiser' }),
+})
+
+export const RolePatch = z.object({ role: RoleSchema })
+
+export const AccountPatch = z.object({
+  name: z.string().trim().min(1, 'Enter your name').max(120).optional(),
+  currentPassword: z.string().max(200).optional(),
+  newPassword: z.string().min(10, 'Use at least 10 characters').max(200).optional(),
+}).refine((v) => !v.newPassword || !!v.currentPassword, { message: 'Enter your current password', path: ['currentPassword'] })
+
+export const IdParams = z.object({ id: z.coerce.number().int().positive() })
+
+/** What a signed-in user may see of themselves and others. */
+export interface PublicUser {
+  id: number
+  email: string
+  name: string
+  role: RoleName
+  createdAt: string
+}
+
+/** Permission rules shared by client (to hide buttons) and server (to decide). */
+export const canManagePeople = (u: { role: RoleName } | null | undefined) => u?.role === 'organiser'
+export const canPlan = (u: { role: RoleName } | null | undefined) => u?.role === 'organiser'
+export const canViewPlans = (u: { role: RoleName } | null | undefined) => u?.role === 'organiser' || u?.role === 'guide'
