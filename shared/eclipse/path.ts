@@ -164,8 +164,14 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
   if (centre.length > 0) {
     const offsets = Array.from({ length: 17 }, (_, i) => -1 + i / 8)
     const ends: Record<'sunrise' | 'sunset', Position[]> = { sunrise: [], sunset: [] }
+    // The ends of every offset line lie within half an hour of the centreline's own ends.
+    const tFirst = centre[0]![0]!.t
+    const lastSeg = centre[centre.length - 1]!
+    const tLast = lastSeg[lastSeg.length - 1]!.t
+    const near = (t: number) => [Math.max(-ELEMENT_WINDOW_H, t - 0.5), Math.min(ELEMENT_WINDOW_H, t + 0.5)] as const
     for (const s of offsets) {
-      const iv = existenceIntervals((t) => offsetPoint(el, t, s, 'umbra', dH) !== null)
+      const exists = (t: number) => offsetPoint(el, t, s, 'umbra', dH) !== null
+      const iv = [...existenceIntervals(exists, ...near(tFirst), 1 / 30), ...existenceIntervals(exists, ...near(tLast), 1 / 30)]
       if (iv.length === 0) continue
       const first = offsetPoint(el, iv[0]![0], s, 'umbra', dH)
       const last = offsetPoint(el, iv[iv.length - 1]![1], s, 'umbra', dH)
@@ -206,10 +212,13 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
     }
   }
 
+  // Equal-duration lines are smooth: trace them on a whole-minute grid (or the tick step, if coarser).
+  const durStepSec = Math.max(60, stepSec)
+  const durTimes = centre.map((seg) => seg.filter((p, i) => i === 0 || i === seg.length - 1 || isWholeStep(el, p.t, durStepSec, deltaTSec)))
   for (const r of fractions) {
     for (const side of [1, -1] as const) {
       const lines: Position[][] = []
-      for (const seg of centre) {
+      for (const seg of durTimes) {
         let cur: Position[] = []
         for (const p of seg) {
           const D0 = centreDur.get(p.t) ?? 0

@@ -1,0 +1,35 @@
+import type { Ref } from 'vue'
+
+export interface EclipseRow {
+  id: string
+  type: 'total' | 'annular' | 'hybrid' | 'partial'
+  greatest: { utc: string; lat: number; lon: number }
+  gamma: number
+  magnitude: number
+  centralDurationSec: number | null
+  pathWidthKm: number | null
+  sunAltitudeDeg: number
+  deltaTSec: number
+}
+
+export function useEclipses(filters: Ref<{ from?: number; to?: number; type?: string; upcoming?: string }>) {
+  return useFetch<{ data: EclipseRow[]; meta: { total: number } }>('/api/eclipses', {
+    key: computed(() => `eclipses:${JSON.stringify(filters.value)}`),
+    query: filters,
+  })
+}
+
+export function useEclipse(id: Ref<string> | string) {
+  const idRef = toRef(id)
+  return useFetch<EclipseRow & {
+    deltaT: { sec: number; sigmaSec: number; basis: string; override: number | null }
+    elements: { source: string; kind: 'computed' | 'published'; date: string; t0Tdt: number }
+  }>(() => `/api/eclipses/${idRef.value}`, { key: computed(() => `eclipse:${idRef.value}`) })
+}
+
+export function formatDuration(sec: number | null | undefined): string {
+  if (sec === null || sec === undefined) return '—'
+  const m = Math.floor(sec / 60)
+  const s = sec - m * 60
+  return `${m}m ${s.toFixed(1).padStart(4, '0')}s`
+}

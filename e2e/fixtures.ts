@@ -1,0 +1,24 @@
+import { test as base, expect, type Page } from '@playwright/test'
+
+/** Every test fails if the page asks for anything that is not on this machine. */
+export const test = base.extend<{ outside: string[] }>({
+  outside: [async ({ context }, use) => {
+    const outside: string[] = []
+    context.on('request', (req) => {
+      const u = new URL(req.url())
+      if (u.protocol === 'data:' || u.protocol === 'blob:') return
+      if (!['localhost', '127.0.0.1', '[::1]'].includes(u.hostname)) outside.push(req.url())
+    })
+    await use(outside)
+    expect(outside, 'requests that left the machine').toEqual([])
+  }, { auto: true }],
+})
+export { expect }
+
+export async function signInAs(page: Page, email: string, password = 'eclipse-demo') {
+  await page.goto('/login')
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await page.waitForURL((u) => !u.pathname.startsWith('/login'))
+}

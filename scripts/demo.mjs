@@ -1,0 +1,91 @@
+// npm run demo — builds if needed, starts the local fakes and the app on a migrated, demo-seeded SQLite
+// file, prints the URLs and demo accounts, and stops everything on Ctrl-C.
+import { spawn, spawnSync } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+
+const root = resolve(dirname(new URL(import.meta.url).pathname), '..')
+process.chdir(root)
+const PORT = process.env.PORT || '3000'
+const DB_PATH = process.env.NUXT_DB_PATH || 'data/umbrafield.sqlite'
+const APP_URL = process.env.NUXT_PUBLIC_APP_URL || `http://localhost:${PORT}`
+
+// 1. Build when there is no build or a source file is newer than it.
+const SOURCES = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json', 'pages', 'components', 'composables', 'layouts', 'middleware', 'stores', 'server', 'shared', 'assets', 'public']
+function newest(p) {
+  if (!existsSync(p)) return 0
+  const s = statSync(p)
+  if (!s.isDirectory()) return s.mtimeMs
+  return readdirSync(p).reduce((m, f) => Math.max(m, newest(join(p, f))), s.mtimeMs)
+}
+const built = existsSync('.output/nitro.json') ? statSync('.output/nitro.json').mtimeMs : 0
+if (!built || SOURCES.some((s) => newest(s) > built)) {
+  console.log('Building Umbrafield (about half a minute)…')
+  const r = spawnSync('npx', ['nuxt', 'build'], { stdio: ['ignore', 'pipe', 'pipe'], encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 })
+  if (r.status !== 0) { console.error(r.stdout + r.stderr + '\nBuild failed.'); process.exit(1) }
+}
+
+// 2. A session secret for the demo, generated once and kept in a git-ignored file.
+const secretFile = join(dirname(resolve(DB_PATH)), '.session-secret')
+mkdirSync(dirname(secretFile), { recursive: true })
+if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString('hex'), { mode: 0o600 })
+const sessionPassword = process.env.NUXT_SESSION_PASSWORD || readFileSync(secretFile, 'utf8').trim()
+
+// 3. Local fakes for hosted services, then the app (which migrates and seeds at start-up).
+const children = []
+function start(name, cmd, args, env = {}) {
+  const child = spawn(cmd, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ...env } })
+  child.stdout.on('data', (d) => { if (process.env.DEMO_VERBOSE) process.stdout.write(`[${name}] ${d}`) })
+  child.stderr.on('data', (d) => process.stderr.write(`[${name}] ${d}`))
+  child.on('exit', (code, signal) => {
+    if (!stopping) { console.error(`[${name}] stopped unexpectedly (${code ?? signal}); shutting down.`); stop(1) }
+  })
+  children.push(child)
+  return child
+}
+let stopping = false
+function stop(code = 0) {
+  if (stopping) return
+  stopping = true
+  for (const c of children) c.kill('SIGTERM')
+  setTimeout(() => process.exit(code), 300)
+}
+process.on('SIGINT', () => stop(0))
+process.on('SIGTERM', () => stop(0))
+
+const fakes = (await import('./fakes.mjs')).fakeServices()
+const fakeEnv = {}
+for (const f of fakes) {
+  start(f.name, process.execPath, f.args, f.env)
+  Object.assign(fakeEnv, f.appEnv)
+}
+start('app', process.execPath, ['.output/server/index.mjs'], {
+  ...fakeEnv,
+  PORT, NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+})
+
+// 4. Wait until the app answers, then say where everything is.
+const deadline = Date.now() + 90_000
+for (;;) {
+  try {
+    const r = await fetch(`http://127.0.0.1:${PORT}/api/eclipses?from=2027&to=2027`)
+    if (r.ok) break
+  } catch { /* not up yet */ }
+  if (Date.now() > deadline) { console.error('The app did not start within 90 s.'); stop(1) }
+  await new Promise((r) => setTimeout(r, 300))
+}
+console.log(`
+  Umbrafield demo is running (demo data: an invented company, Kestrel Sky Journeys)
+
+  App            ${APP_URL}
+${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
+  Database       ${DB_PATH}
+
+  Demo accounts (password: eclipse-demo)
+    organiser@umbrafield.test   organiser
+    guide@umbrafield.test       guide
+    traveller@umbrafield.test   traveller
+
+  Press Ctrl-C to stop.
+`)

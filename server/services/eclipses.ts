@@ -1,0 +1,107 @@
+import type { Kysely } from 'kysely'
+import type { BesselianElements } from '../../shared/eclipse/types'
+import { PublishedElements, type PublishedElementsInput } from '../../shared/schemas/elements'
+import type { Database, User } from '../database/schema'
+import { catalogue, computedElementsFor, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
+import { localReport, pathReport, resolveDeltaT } from '../eclipse/report'
+import type { Site } from '../../shared/eclipse/types'
+import { audit } from './audit'
+
+export class UnknownEclipseError extends Error {}
+
+/** The element set in force for an eclipse: the newest published set if any, else the computed one; plus the ΔT override. */
+export async function elementsInForce(db: Kysely<Database>, id: string): Promise<{ el: BesselianElements; key: string; deltaTOverride: number | null }> {
+  const published = await db.selectFrom('element_sets').select(['id', 'elements']).where('eclipse_id', '=', id)
+    .orderBy('id', 'desc').executeTakeFirst()
+  const settings = await db.selectFrom('eclipse_settings').select('delta_t_sec').where('eclipse_id', '=', id).executeTakeFirst()
+  const deltaTOverride = settings?.delta_t_sec ?? null
+  if (published) {
+    const el = { ...PublishedElements.parse(JSON.parse(published.elements)), kind: 'published' as const }
+    return { el, key: `published:${published.id}`, deltaTOverride }
+  }
+  const el = computedElementsFor(id)
+  if (!el) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
+  return { el, key: 'computed', deltaTOverride }
+}
+
+export function listEclipses(q: { from?: number; to?: number; type?: string; upcoming?: string }): CatalogueRow[] {
+  const now = new Date().toISOString()
+  return catalogue().rows.filter((r) => {
+    const y = Number(r.id.slice(0, 4))
+    if (q.from !== undefined && y < q.from) return false
+    if (q.to !== undefined && y > q.to) return false
+    if (q.type && r.type !== q.type) return false
+    if (q.upcoming && r.greatest.utc < now) return false
+    return true
+  })
+}
+
+/** Small in-memory cache for path and local results, keyed by element set, ΔT and the request. */
+const cache = new Map<string, unknown>()
+const CACHE_MAX = 500
+function cached<T>(key: string, make: () => T): T {
+  if (cache.has(key)) return cache.get(key) as T
+  const v = make()
+  if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!)
+  cache.set(key, v)
+  return v
+}
+
+export async function eclipseDetail(db: Kysely<Database>, id: string) {
+  const { el, deltaTOverride } = await elementsInForce(db, id)
+  const dt = resolveDeltaT(el, deltaTOverride)
+  return {
+    ...rowFromElements(el, dt.deltaTSec),
+    deltaT: { sec: dt.deltaTSec, sigmaSec: Math.round(dt.sigmaSec * 10) / 10, basis: dt.basis, override: deltaTOverride },
+    elements: el,
+  }
+}
+
+export async function eclipsePathFor(db: Kysely<Database>, id: string, q: { step?: number; deltaT?: number; wrap?: 'split' | 'unwrap' }) {
+  const { el, key, deltaTOverride } = await elementsInForce(db, id)
+  const deltaT = q.deltaT ?? deltaTOverride
+  return cached(`path|${id}|${key}|${deltaT}|${q.step ?? 60}|${q.wrap ?? 'split'}`,
+    () => pathReport(id, el, { stepSec: q.step ?? 60, deltaT, wrap: q.wrap }))
+}
+
+export async function eclipseLocalFor(db: Kysely<Database>, id: string, site: Site, deltaTReq?: number) {
+  const { el, key, deltaTOverride } = await elementsInForce(db, id)
+  const deltaT = deltaTReq ?? deltaTOverride
+  return cached(`local|${id}|${key}|${deltaT}|${site.latDeg}|${site.lonDeg}|${site.elevationM ?? 0}`,
+    () => localReport(id, el, site, deltaT))
+}
+
+export async function importPublishedElements(db: Kysely<Database>, actor: User, id: string, input: PublishedElementsInput) {
+  if (!computedElementsFor(id)) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
+  const el: BesselianElements = { ...input, kind: 'published' }
+  // The set must describe this eclipse: its greatest eclipse must fall on the same UTC date.
+  const row = rowFromElements(el)
+  if (row.id !== id) throw new Error(`These elements put greatest eclipse on ${row.id}, not ${id}`)
+  return db.transaction().execute(async (trx) => {
+    const r = await trx.insertInto('element_sets').values({
+      eclipse_id: id, elements: JSON.stringify(input), source: input.source, created_by: actor.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    await audit(trx, { action: 'elements_import', actorUserId: actor.id, detail: { eclipseId: id, source: input.source } })
+    cache.clear()
+    return { id: r.id, greatest: row }
+  })
+}
+
+export async function removePublishedElements(db: Kysely<Database>, actor: User, id: string) {
+  await db.transaction().execute(async (trx) => {
+    await trx.deleteFrom('element_sets').where('eclipse_id', '=', id).execute()
+    await audit(trx, { action: 'elements_remove', actorUserId: actor.id, detail: { eclipseId: id } })
+  })
+  cache.clear()
+}
+
+export async function setDeltaTOverride(db: Kysely<Database>, actor: User, id: string, deltaTSec: number | null) {
+  if (!computedElementsFor(id)) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
+  await db.transaction().execute(async (trx) => {
+    await trx.insertInto('eclipse_settings').values({ eclipse_id: id, delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: new Date().toISOString() })
+      .onConflict((oc) => oc.column('eclipse_id').doUpdateSet({ delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: new Date().toISOString() }))
+      .execute()
+    await audit(trx, { action: 'delta_t_override', actorUserId: actor.id, detail: { eclipseId: id, deltaTSec } })
+  })
+  cache.clear()
+}

@@ -1,0 +1,53 @@
+import { mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { setup, url } from '@nuxt/test-utils/e2e'
+
+const rootDir = resolve(__dirname, '../..')
+
+/** Starts the built app on a fresh, demo-seeded SQLite file for this test file. */
+export async function useApp(env: Record<string, string> = {}) {
+  const dir = mkdtempSync(join(tmpdir(), 'umbrafield-test-'))
+  await setup({
+    rootDir,
+    build: false,
+    server: true,
+    browser: false,
+    nuxtConfig: { nitro: { output: { dir: resolve(rootDir, '.output') } } },
+    env: {
+      NUXT_DB_PATH: join(dir, 'test.sqlite'),
+      NUXT_SEED: 'demo',
+      NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
+      ...env,
+    },
+  })
+  return { dbPath: join(dir, 'test.sqlite') }
+}
+
+export interface ApiResult<T = any> { status: number; body: T; headers: Headers }
+
+export async function api<T = any>(path: string, opts: { method?: string; body?: unknown; cookie?: string; raw?: BodyInit; headers?: Record<string, string> } = {}): Promise<ApiResult<T>> {
+  const headers: Record<string, string> = { ...(opts.headers ?? {}) }
+  if (opts.cookie) headers.cookie = opts.cookie
+  let body: BodyInit | undefined = opts.raw
+  if (opts.body !== undefined) { headers['content-type'] = 'application/json'; body = JSON.stringify(opts.body) }
+  const res = await fetch(url(path), { method: opts.method ?? 'GET', headers, body, redirect: 'manual' })
+  const text = await res.text()
+  let parsed: unknown = text
+  try { parsed = JSON.parse(text) } catch { /* not JSON */ }
+  return { status: res.status, body: parsed as T, headers: res.headers }
+}
+
+/** Signs in and returns the session cookie header. */
+export async function signIn(email: string, password = 'eclipse-demo'): Promise<string> {
+  const res = await fetch(url('/api/auth/login'), {
+    method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }),
+  })
+  if (res.status !== 200) throw new Error(`sign-in failed for ${email}: ${res.status}`)
+  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+}
+
+export const ORGANISER = 'organiser@umbrafield.test'
+export const GUIDE = 'guide@umbrafield.test'
+export const TRAVELLER = 'traveller@umbrafield.test'
+export const TRAVELLER2 = 'traveller2@umbrafield.test'

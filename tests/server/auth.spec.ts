@@ -1,0 +1,117 @@
+import { describe, expect, it } from 'vitest'
+import { api, GUIDE, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
+
+await useApp()
+
+describe('sign-in', () => {
+  it('a bad login body gets 400 with field messages', async () => {
+    const r = await api('/api/auth/login', { method: 'POST', body: { email: 'not-an-email' } })
+    expect(r.status).toBe(400)
+    expect(r.body.data.fields.email).toMatch(/valid e-mail/)
+    expect(r.body.data.fields.password).toMatch(/password/i)
+    expect(JSON.stringify(r.body)).not.toMatch(/at .*\.mjs|stack/i)
+  })
+
+  it('a body that is not JSON gets 400, not a stack trace', async () => {
+    const r = await api('/api/auth/login', { method: 'POST', raw: '{"email":', headers: { 'content-type': 'application/json' } })
+    expect(r.status).toBe(400)
+    expect(JSON.stringify(r.body)).not.toMatch(/\.mjs:\d+|node_modules/)
+  })
+
+  it('wrong credentials get one generic message, for unknown and known e-mails alike', async () => {
+    const a = await api('/api/auth/login', { method: 'POST', body: { email: 'nobody@umbrafield.test', password: 'x' } })
+    const b = await api('/api/auth/login', { method: 'POST', body: { email: GUIDE, password: 'wrong-password' } })
+    expect(a.status).toBe(401)
+    expect(b.status).toBe(401)
+    expect(a.body.message).toBe(b.body.message)
+  })
+
+  it('ten wrong passwords in a row are throttled, and the right one then waits too', async () => {
+    const email = 'throttle-me@umbrafield.test'
+    const reg = await api('/api/auth/register', { method: 'POST', body: { name: 'Throttle Test', email, password: 'correct-horse-battery' } })
+    expect(reg.status).toBe(201)
+    const statuses: number[] = []
+    for (let i = 0; i < 10; i++) {
+      statuses.push((await api('/api/auth/login', { method: 'POST', body: { email, password: `wrong-${i}` } })).status)
+    }
+    expect(statuses.slice(0, 5)).toEqual([401, 401, 401, 401, 401])
+    expect(statuses.slice(5)).toEqual([429, 429, 429, 429, 429])
+    const right = await api('/api/auth/login', { method: 'POST', body: { email, password: 'correct-horse-battery' } })
+    expect(right.status).toBe(429)
+    expect(right.headers.get('retry-after')).toBeTruthy()
+  })
+
+  it('successful sign-ins do not count towards the throttle', async () => {
+    for (let i = 0; i < 8; i++) await signIn(GUIDE)
+    expect((await api('/api/auth/login', { method: 'POST', body: { email: GUIDE, password: 'eclipse-demo' } })).status).toBe(200)
+  })
+
+  it('sign-up creates a traveller, and duplicate e-mails are refused', async () => {
+    const r = await api('/api/auth/register', { method: 'POST', body: { name: 'New Person', email: 'New.Person@Example.test', password: 'long-enough-pass' } })
+    expect(r.status).toBe(201)
+    expect(r.body.role).toBe('traveller')
+    expect(r.body.email).toBe('new.person@example.test')
+    const again = await api('/api/auth/register', { method: 'POST', body: { name: 'Again', email: 'new.person@example.test', password: 'long-enough-pass' } })
+    expect(again.status).toBe(409)
+  })
+
+  it('sign-out ends the session', async () => {
+    const cookie = await signIn(TRAVELLER)
+    expect((await api('/api/me', { cookie })).status).toBe(200)
+    const out = await api('/api/auth/logout', { method: 'POST', cookie })
+    const cleared = out.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    expect((await api('/api/me', { cookie: cleared })).status).toBe(401)
+  })
+})
+
+describe('role boundaries', () => {
+  it('GET /api/users: 401 signed out, 403 traveller, 403 guide, 200 organiser', async () => {
+    expect((await api('/api/users')).status).toBe(401)
+    expect((await api('/api/users', { cookie: await signIn(TRAVELLER) })).status).toBe(403)
+    expect((await api('/api/users', { cookie: await signIn(GUIDE) })).status).toBe(403)
+    const ok = await api('/api/users', { cookie: await signIn(ORGANISER) })
+    expect(ok.status).toBe(200)
+    expect(ok.body.data.length).toBeGreaterThanOrEqual(4)
+    expect(ok.body.data[0]).not.toHaveProperty('password_hash')
+  })
+
+  it('only organisers change roles or invite', async () => {
+    const guide = await signIn(GUIDE)
+    expect((await api('/api/users/3', { method: 'PATCH', body: { role: 'organiser' }, cookie: guide })).status).toBe(403)
+    expect((await api('/api/users', { method: 'POST', body: { name: 'X', email: 'x@y.test', role: 'guide' }, cookie: guide })).status).toBe(403)
+    const org = await signIn(ORGANISER)
+    expect((await api('/api/users/3', { method: 'PATCH', body: { role: 'emperor' }, cookie: org })).status).toBe(400)
+    expect((await api('/api/users/999', { method: 'PATCH', body: { role: 'guide' }, cookie: org })).status).toBe(404)
+  })
+
+  it('a promotion shows on the promoted user\'s next request without a new sign-in', async () => {
+    const traveller = await signIn(TRAVELLER2)
+    expect((await api('/api/me', { cookie: traveller })).body.role).toBe('traveller')
+    const org = await signIn(ORGANISER)
+    const users = (await api('/api/users', { cookie: org })).body.data as Array<{ id: number; email: string }>
+    const id = users.find((u) => u.email === TRAVELLER2)!.id
+    const r = await api(`/api/users/${id}`, { method: 'PATCH', body: { role: 'guide' }, cookie: org })
+    expect(r.status).toBe(200)
+    expect((await api('/api/me', { cookie: traveller })).body.role).toBe('guide')
+    // and a demotion removes privileges at once
+    await api(`/api/users/${id}`, { method: 'PATCH', body: { role: 'organiser' }, cookie: org })
+    expect((await api('/api/users', { cookie: traveller })).status).toBe(200)
+    await api(`/api/users/${id}`, { method: 'PATCH', body: { role: 'traveller' }, cookie: org })
+    expect((await api('/api/users', { cookie: traveller })).status).toBe(403)
+  })
+
+  it('an organiser invites a guide, who can sign in with the one-time password', async () => {
+    const org = await signIn(ORGANISER)
+    const r = await api('/api/users', { method: 'POST', body: { name: 'Invited Guide', email: 'invited@umbrafield.test', role: 'guide' }, cookie: org })
+    expect(r.status).toBe(201)
+    const cookie = await signIn('invited@umbrafield.test', r.body.temporaryPassword)
+    expect((await api('/api/me', { cookie })).body.role).toBe('guide')
+  })
+
+  it('the last organiser cannot be demoted', async () => {
+    const org = await signIn(ORGANISER)
+    const me = (await api('/api/me', { cookie: org })).body
+    const r = await api(`/api/users/${me.id}`, { method: 'PATCH', body: { role: 'guide' }, cookie: org })
+    expect(r.status).toBe(409)
+  })
+})
