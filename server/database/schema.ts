@@ -52,12 +52,41 @@ export interface EclipseSettingsTable {
   updated_at: string
 }
 
+export interface WorkspacesTable {
+  id: Generated<number>
+  eclipse_id: string
+  name: string
+  created_by: number | null
+  created_at: ColumnType<string, string | undefined, never>
+}
+
+export const ROAD_ACCESS = ['paved', 'gravel', 'track', 'none', 'unknown'] as const
+export interface SitesTable {
+  id: Generated<number>
+  workspace_id: number
+  name: string
+  /** Geodetic latitude, degrees north. */
+  lat: number
+  /** Longitude, degrees east. */
+  lon: number
+  elevation_m: ColumnType<number, number | undefined, number>
+  notes: ColumnType<string, string | undefined, string>
+  road_access: ColumnType<(typeof ROAD_ACCESS)[number], (typeof ROAD_ACCESS)[number] | undefined, (typeof ROAD_ACCESS)[number]>
+  capacity: number | null
+  crosses_border: ColumnType<number, number | undefined, number>
+  pinned: ColumnType<number, number | undefined, number>
+  created_at: ColumnType<string, string | undefined, never>
+  updated_at: ColumnType<string, string | undefined, string>
+}
+
 export interface Database {
   users: UsersTable
   audit_log: AuditLogTable
   sign_in_failures: SignInFailuresTable
   element_sets: ElementSetsTable
   eclipse_settings: EclipseSettingsTable
+  workspaces: WorkspacesTable
+  sites: SitesTable
 }
 
 export type User = Selectable<UsersTable>

@@ -1,0 +1,9 @@
+import { IdParams } from '#shared/schemas/auth'
+import { deleteSite } from '../../services/planning'
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'organiser')
+  const { id } = paramsAs(event, IdParams)
+  await withPlanningErrors(() => deleteSite(useDb(), id))
+  return { ok: true }
+})

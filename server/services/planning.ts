@@ -1,0 +1,148 @@
+import { find as findZone } from 'geo-tz'
+import type { Kysely, Selectable } from 'kysely'
+import type { BesselianElements } from '../../shared/eclipse/types'
+import { NO_CLIMATOLOGY, type SiteCloud, type SiteCreateInput, type SiteMetrics, type SiteOut, type SitePatchInput } from '../../shared/schemas/sites'
+import { localTime } from '../../shared/time/local'
+import type { Database, SitesTable, User } from '../database/schema'
+import { localReport, resolveDeltaT } from '../eclipse/report'
+import { audit } from './audit'
+import { elementsInForce } from './eclipses'
+
+export type SiteRow = Selectable<SitesTable>
+export type CloudLookup = (site: SiteRow) => SiteCloud
+export { NO_CLIMATOLOGY }
+export type { SiteCloud, SiteMetrics, SiteOut }
+
+export const LOW_SUN_DEG = 15
+
+/** IANA zone of a point (geo-tz; nautical Etc/GMT±n zones offshore). */
+export function zoneAt(lat: number, lon: number): string {
+  return findZone(lat, lon)[0] ?? 'Etc/UTC'
+}
+
+export function siteMetrics(eclipseId: string, el: BesselianElements, deltaT: number | null, s: Pick<SiteRow, 'lat' | 'lon' | 'elevation_m'>, cloud: SiteCloud): SiteMetrics {
+  const r = localReport(eclipseId, el, { latDeg: s.lat, lonDeg: s.lon, elevationM: s.elevation_m }, deltaT)
+  const zone = zoneAt(s.lat, s.lon)
+  const c2 = r.c2 ? localTime(Date.parse(r.c2.utc), zone) : null
+  const expectedSec = cloud.pClear === null ? null : Math.round(r.durationSec * cloud.pClear * 10) / 10
+  return {
+    type: r.type,
+    centrelineDistanceKm: r.centrelineDistanceKm,
+    halfWidthFraction: r.halfWidthFraction,
+    limitDistanceKm: r.limitDistanceKm,
+    durationSec: r.durationSec,
+    magnitude: r.magnitude,
+    c2Utc: r.c2?.utc ?? null,
+    c2Local: c2 ? c2.local : null,
+    c2UncertaintySec: r.c2?.uncertaintySec ?? null,
+    zone,
+    utcOffset: c2?.utcOffset ?? (r.max ? localTime(Date.parse(r.max.utc), zone).utcOffset : null),
+    sunAltitudeDeg: r.max?.apparentAltitudeDeg ?? null,
+    sunAzimuthDeg: r.max?.azimuthDeg ?? null,
+    lowSun: r.max ? r.max.apparentAltitudeDeg < LOW_SUN_DEG : false,
+    ...cloud,
+    expectedSec,
+  }
+}
+
+export function siteOut(row: SiteRow, metrics: SiteMetrics): SiteOut {
+  return {
+    id: row.id, workspaceId: row.workspace_id, name: row.name, lat: row.lat, lon: row.lon, elevationM: row.elevation_m,
+    notes: row.notes, roadAccess: row.road_access, capacity: row.capacity, crossesBorder: !!row.crosses_border,
+    pinned: !!row.pinned, metrics,
+  }
+}
+
+export class NotFoundError extends Error {}
+
+export async function listWorkspaces(db: Kysely<Database>) {
+  const rows = await db.selectFrom('workspaces').selectAll().orderBy('eclipse_id').orderBy('name').execute()
+  return rows.map((w) => ({ id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at }))
+}
+
+export async function getWorkspace(db: Kysely<Database>, id: number) {
+  const w = await db.selectFrom('workspaces').selectAll().where('id', '=', id).executeTakeFirst()
+  if (!w) throw new NotFoundError('No such planning workspace')
+  return w
+}
+
+export async function createWorkspace(db: Kysely<Database>, user: User, input: { eclipseId: string; name: string }) {
+  await elementsInForce(db, input.eclipseId) // 400 for an unknown eclipse
+  return db.transaction().execute(async (trx) => {
+    const w = await trx.insertInto('workspaces').values({ eclipse_id: input.eclipseId, name: input.name, created_by: user.id })
+      .returningAll().executeTakeFirstOrThrow()
+    await audit(trx, { action: 'workspace_create', actorUserId: user.id, detail: { workspaceId: w.id, eclipseId: w.eclipse_id } })
+    return { id: w.id, eclipseId: w.eclipse_id, name: w.name }
+  })
+}
+
+/** Everything needed to compute metrics for a workspace's sites. */
+export async function workspaceContext(db: Kysely<Database>, workspaceId: number, cloudFor?: (ws: Selectable<Database['workspaces']>) => Promise<CloudLookup>) {
+  const ws = await getWorkspace(db, workspaceId)
+  const { el, deltaTOverride } = await elementsInForce(db, ws.eclipse_id)
+  const lookup = cloudFor ? await cloudFor(ws) : () => NO_CLIMATOLOGY
+  return { ws, el, deltaT: deltaTOverride, dt: resolveDeltaT(el, deltaTOverride), cloud: lookup }
+}
+
+export async function listSites(db: Kysely<Database>, workspaceId: number, cloudFor?: Parameters<typeof workspaceContext>[2]): Promise<SiteOut[]> {
+  const ctx = await workspaceContext(db, workspaceId, cloudFor)
+  const rows = await db.selectFrom('sites').selectAll().where('workspace_id', '=', workspaceId).orderBy('id').execute()
+  return rows.map((r) => siteOut(r, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, r, ctx.cloud(r))))
+}
+
+function toValues(input: SiteCreateInput | SitePatchInput) {
+  const v: Record<string, unknown> = {}
+  if (input.name !== undefined) v.name = input.name
+  if (input.lat !== undefined) v.lat = input.lat
+  if (input.lon !== undefined) v.lon = input.lon
+  if (input.elevationM !== undefined) v.elevation_m = input.elevationM
+  if (input.notes !== undefined) v.notes = input.notes
+  if (input.roadAccess !== undefined) v.road_access = input.roadAccess
+  if (input.capacity !== undefined) v.capacity = input.capacity
+  if (input.crossesBorder !== undefined) v.crosses_border = input.crossesBorder ? 1 : 0
+  if ('pinned' in input && input.pinned !== undefined) v.pinned = input.pinned ? 1 : 0
+  return v
+}
+
+export async function createSite(db: Kysely<Database>, user: User, workspaceId: number, input: SiteCreateInput): Promise<number> {
+  await getWorkspace(db, workspaceId)
+  const r = await db.insertInto('sites').values({ workspace_id: workspaceId, name: input.name, lat: input.lat, lon: input.lon, ...toValues(input) } as never)
+    .returning('id').executeTakeFirstOrThrow()
+  return r.id
+}
+
+/** Inserts all rows or none. */
+export async function importSites(db: Kysely<Database>, user: User, workspaceId: number, rows: SiteCreateInput[]): Promise<number> {
+  await getWorkspace(db, workspaceId)
+  return db.transaction().execute(async (trx) => {
+    for (const input of rows) {
+      await trx.insertInto('sites').values({ workspace_id: workspaceId, name: input.name, lat: input.lat, lon: input.lon, ...toValues(input) } as never).execute()
+    }
+    await audit(trx, { action: 'sites_import', actorUserId: user.id, detail: { workspaceId, count: rows.length } })
+    return rows.length
+  })
+}
+
+export async function getSite(db: Kysely<Database>, id: number): Promise<SiteRow> {
+  const s = await db.selectFrom('sites').selectAll().where('id', '=', id).executeTakeFirst()
+  if (!s) throw new NotFoundError('No such site')
+  return s
+}
+
+export async function updateSite(db: Kysely<Database>, id: number, patch: SitePatchInput): Promise<void> {
+  await getSite(db, id)
+  const v = toValues(patch)
+  if (Object.keys(v).length === 0) return
+  await db.updateTable('sites').set({ ...v, updated_at: new Date().toISOString() } as never).where('id', '=', id).execute()
+}
+
+export async function deleteSite(db: Kysely<Database>, id: number): Promise<void> {
+  const r = await db.deleteFrom('sites').where('id', '=', id).executeTakeFirst()
+  if (!r.numDeletedRows) throw new NotFoundError('No such site')
+}
+
+export async function siteWithMetrics(db: Kysely<Database>, id: number, cloudFor?: Parameters<typeof workspaceContext>[2]): Promise<SiteOut> {
+  const row = await getSite(db, id)
+  const ctx = await workspaceContext(db, row.workspace_id, cloudFor)
+  return siteOut(row, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, row, ctx.cloud(row)))
+}

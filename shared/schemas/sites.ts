@@ -1,0 +1,118 @@
+import { z } from 'zod'
+
+export const ROAD_ACCESS_VALUES = ['paved', 'gravel', 'track', 'none', 'unknown'] as const
+
+const lat = z.number({ error: 'lat must be a number' }).min(-90, 'lat must be −90 to 90').max(90, 'lat must be −90 to 90')
+const lon = z.number({ error: 'lon must be a number' }).min(-180, 'lon must be −180 to 180').max(180, 'lon must be −180 to 180')
+const elevationM = z.number({ error: 'elevationM must be a number' }).min(-500, 'elevationM must be −500 to 9000 m').max(9000, 'elevationM must be −500 to 9000 m')
+const name = z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters')
+
+export const SiteCreate = z.object({
+  name,
+  lat,
+  lon,
+  elevationM: elevationM.optional(),
+  notes: z.string().max(2000).optional(),
+  roadAccess: z.enum(ROAD_ACCESS_VALUES).optional(),
+  capacity: z.number().int('capacity must be a whole number').min(0).max(100000).nullable().optional(),
+  crossesBorder: z.boolean().optional(),
+})
+export type SiteCreateInput = z.infer<typeof SiteCreate>
+
+export const SitePatch = SiteCreate.partial().extend({ pinned: z.boolean().optional() })
+export type SitePatchInput = z.infer<typeof SitePatch>
+
+export const WorkspaceCreate = z.object({
+  eclipseId: z.string({ error: 'eclipseId is required' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'eclipseId must be a date, YYYY-MM-DD'),
+  name: z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120),
+})
+
+export const WorkspacePatch = z.object({
+  name: z.string().trim().min(1).max(120).optional(),
+  climatologyId: z.number().int().positive().nullable().optional(),
+})
+
+/**
+ * One row of a site CSV (name, lat, lon, optional elevation and notes), as text from the file.
+ * Numbers must be plain decimals: a CSV cell is not guessed at.
+ */
+const decimal = (field: string, min: number, max: number) => z.string().trim()
+  .regex(/^[-+]?\d+(\.\d+)?$/, `${field} must be a decimal number`)
+  .transform(Number)
+  .refine((v) => v >= min && v <= max, `${field} must be ${min} to ${max}`)
+
+export const SiteCsvRow = z.object({
+  name,
+  lat: decimal('lat', -90, 90),
+  lon: decimal('lon', -180, 180),
+  elevation: z.union([z.literal('').transform(() => undefined), decimal('elevation', -500, 9000)]).optional(),
+  notes: z.string().max(2000).optional(),
+})
+
+export interface CsvRowError { row: number; field: string; message: string }
+
+/** Validates parsed CSV records (header row already used as keys). Row numbers count the header as row 1. */
+export function validateSiteRows(records: Array<Record<string, string>>): { rows: SiteCreateInput[]; errors: CsvRowError[] } {
+  const rows: SiteCreateInput[] = []
+  const errors: CsvRowError[] = []
+  records.forEach((rec, i) => {
+    const normal: Record<string, string> = {}
+    for (const [k, v] of Object.entries(rec)) normal[k.trim().toLowerCase().replace(/^elevation_m$|^elevationm$|^elev$/, 'elevation')] = v ?? ''
+    const r = SiteCsvRow.safeParse(normal)
+    if (!r.success) {
+      for (const issue of r.error.issues) errors.push({ row: i + 2, field: String(issue.path[0] ?? 'row'), message: issue.message })
+      return
+    }
+    rows.push({ name: r.data.name, lat: r.data.lat, lon: r.data.lon, elevationM: r.data.elevation, notes: r.data.notes })
+  })
+  if (records.length === 0) errors.push({ row: 1, field: 'file', message: 'The file has no site rows' })
+  return { rows, errors }
+}
+
+export const REQUIRED_CSV_COLUMNS = ['name', 'lat', 'lon'] as const
+
+/** Cloud figures for a site, from the workspace's climatology (filled in by the climatology service). */
+export interface SiteCloud {
+  cloudPct: number | null
+  pClear: number | null
+  pClearMethod: string | null
+  cloudSource: string | null
+  cloudNote: string
+}
+export const NO_CLIMATOLOGY: SiteCloud = { cloudPct: null, pClear: null, pClearMethod: null, cloudSource: null, cloudNote: 'no climatology loaded' }
+
+export interface SiteMetrics extends SiteCloud {
+  type: string
+  centrelineDistanceKm: number | null
+  halfWidthFraction: number | null
+  limitDistanceKm: number | null
+  durationSec: number
+  magnitude: number
+  c2Utc: string | null
+  c2Local: string | null
+  c2UncertaintySec: number | null
+  zone: string
+  utcOffset: string | null
+  sunAltitudeDeg: number | null
+  sunAzimuthDeg: number | null
+  /** Sun below 15° at maximum: haze, obstacles and refraction make it a risk. */
+  lowSun: boolean
+  /** durationSec × pClear, or null without cloud data. */
+  expectedSec: number | null
+}
+
+export interface SiteOut {
+  id: number
+  workspaceId: number
+  name: string
+  lat: number
+  lon: number
+  elevationM: number
+  notes: string
+  roadAccess: string
+  capacity: number | null
+  crossesBorder: boolean
+  pinned: boolean
+  metrics: SiteMetrics
+}
+
