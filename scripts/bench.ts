@@ -1,6 +1,13 @@
 // npm run --silent bench -- <engine|all>   — speed figures as ratios measured in one run (never in tests).
 import * as Astronomy from 'astronomy-engine'
+import autocannon from 'autocannon'
+import { spawn } from 'node:child_process'
+import { existsSync, mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import { performance } from 'node:perf_hooks'
+import { NO_CLIMATOLOGY } from '../shared/schemas/sites'
+import { siteMetrics } from '../server/services/planning'
 import { computedElementsFor } from '../server/eclipse/catalogue'
 import { localReport } from '../server/eclipse/report'
 import {
@@ -52,8 +59,77 @@ function engine() {
   console.log(`engine-speedup ${(coreRate / aeRate).toFixed(0)}`)
 }
 
+/** Starts the built app on a free loopback port with a throwaway demo database. */
+async function startApp(): Promise<{ base: string; stop: () => void }> {
+  if (!existsSync('.output/server/index.mjs')) throw new Error('no build: run "npx nuxt build" first')
+  const port = 3900 + Math.floor(Math.random() * 90)
+  const dir = mkdtempSync(join(tmpdir(), 'umbrafield-bench-'))
+  const child = spawn(process.execPath, ['.output/server/index.mjs'], {
+    env: { ...process.env, PORT: String(port), NUXT_DB_PATH: join(dir, 'bench.sqlite'), NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345' },
+    stdio: 'ignore',
+  })
+  const base = `http://127.0.0.1:${port}`
+  for (let i = 0; i < 200; i++) {
+    try { if ((await fetch(`${base}/api/eclipses?from=2027&to=2027`)).ok) break } catch { /* starting */ }
+    await new Promise((r) => setTimeout(r, 200))
+  }
+  return { base, stop: () => child.kill('SIGTERM') }
+}
+
+function percentile(sorted: number[], p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!
+}
+
+/** A realistic mix: mostly zooms 3–7 around the 2027 path, some world views, a few deep zooms. */
+function tilePaths(n: number): string[] {
+  const rand = rng(7)
+  const out: string[] = []
+  const lonLatToTile = (lon: number, lat: number, z: number) => {
+    const x = Math.floor(((lon + 180) / 360) * 2 ** z)
+    const r = (lat * Math.PI) / 180
+    const y = Math.floor(((1 - Math.log(Math.tan(r) + 1 / Math.cos(r)) / Math.PI) / 2) * 2 ** z)
+    return `/tiles/${z}/${x}/${y}.pbf`
+  }
+  const zooms = [0, 1, 2, 3, 3, 4, 4, 5, 5, 5, 6, 6, 7, 7, 8]
+  for (let i = 0; i < n; i++) {
+    const z = zooms[Math.floor(rand() * zooms.length)]!
+    const lon = -10 + rand() * 55
+    const lat = 15 + rand() * 25
+    out.push(lonLatToTile(lon, lat, z))
+  }
+  return out
+}
+
+async function tiles() {
+  const app = await startApp()
+  try {
+    const paths = tilePaths(2000)
+    const latencies: number[] = []
+    const result = await autocannon({
+      url: app.base, connections: 20, duration: 10,
+      requests: paths.map((path) => ({ method: 'GET' as const, path })),
+      setupClient: (client: { on: (e: string, f: (...a: number[]) => void) => void }) => {
+        client.on('response', (_status: number, _bytes: number, responseTime: number) => { latencies.push(responseTime) })
+      },
+    } as never)
+    latencies.sort((a, b) => a - b)
+    console.log(`tiles: ${result.requests.total} requests in 10 s over 20 connections (${paths.length} distinct paths, zooms 0–8), non-2xx ${result.non2xx}`)
+    console.log(`tiles p50 ${percentile(latencies, 50).toFixed(1)} ms, p95 ${percentile(latencies, 95).toFixed(1)} ms (goal: p95 < 30 ms)`)
+  } finally {
+    app.stop()
+  }
+}
+
+function sites() {
+  const el = computedElementsFor('2027-08-02')!
+  const list = sitesAlongPath(el, 500)
+  const t = performance.now()
+  for (const s of list) siteMetrics('2027-08-02', el, null, { lat: s.latDeg, lon: s.lonDeg, elevation_m: s.elevationM ?? 0 }, NO_CLIMATOLOGY)
+  console.log(`recomputing 500 sites on the server (metrics with zone, local C2, distances, uncertainty): ${(performance.now() - t).toFixed(0)} ms (goal: < 1000 ms)`)
+}
+
 const what = process.argv[2] ?? 'all'
-const benches: Record<string, () => void | Promise<void>> = { engine }
+const benches: Record<string, () => void | Promise<void>> = { engine, sites, tiles }
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)
