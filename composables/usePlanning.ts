@@ -24,3 +24,21 @@ export function useEclipsePath(eclipseId: Ref<string | undefined>) {
     server: false,
   })
 }
+
+export interface ClimatologyView {
+  id: number; name: string; source: string; licence: string; years: string; timeOfDay: string; demo: boolean
+  format: string; resolutionDeg: { lat: number; lon: number }; hasCategories: boolean; months: number[]
+}
+export interface CloudLayerView {
+  none?: boolean; month: number; name: string; source: string; demo: boolean; note?: string
+  cells: GeoJSON.FeatureCollection; profile: Array<{ utc: string; lat: number; lon: number; cloudPct: number | null; pClear: number | null }>
+  legend: Array<[number, string]>
+}
+
+export function useClimatologies() {
+  return useFetch<{ data: ClimatologyView[] }>('/api/climatology', { key: 'climatologies' })
+}
+
+export function useCloudLayer(workspaceId: Ref<number>) {
+  return useFetch<CloudLayerView>(() => `/api/workspaces/${workspaceId.value}/cloud-layer`, { key: computed(() => `cloud-layer:${workspaceId.value}`), server: false })
+}

@@ -19,6 +19,14 @@ test.describe('organiser planning page', () => {
     await expect(page.getByText(/Planning is not viewing advice/)).toBeVisible()
   })
 
+  test('the demo cloud layer is drawn and labelled as demo data', async ({ page }) => {
+    await expect(page.getByTestId('demo-cloud-label')).toHaveText('Demo data — not a real climatology')
+    await expect(page.getByText('Cloud figures: Demo data — not a real climatology')).toBeVisible()
+    await expect(page.getByLabel('Cloud layer opacity')).toBeVisible()
+    await page.getByRole('table', { name: 'Site comparison' }).getByText('Jeddah corniche').click()
+    await expect(page.getByTestId('cloud-source')).toContainText('Demo data — not a real climatology')
+  })
+
   test('adds sites by coordinates (DMS), by town search, by clicking the map, and by CSV', async ({ page }) => {
     const rows = page.getByRole('table', { name: 'Site comparison' }).locator('tbody tr')
     await page.getByLabel('Latitude, longitude').fill(`25°17'35"N 32°33'14"E`)

@@ -8,6 +8,8 @@ import { join } from 'node:path'
 import { performance } from 'node:perf_hooks'
 import { NO_CLIMATOLOGY } from '../shared/schemas/sites'
 import { siteMetrics } from '../server/services/planning'
+import { cloudAt, parseCsvGrid } from '../server/services/climatology'
+import { demoCloudCsv } from '../server/database/seed/demoCloud'
 import { computedElementsFor } from '../server/eclipse/catalogue'
 import { localReport } from '../server/eclipse/report'
 import {
@@ -128,8 +130,24 @@ function sites() {
   console.log(`recomputing 500 sites on the server (metrics with zone, local C2, distances, uncertainty): ${(performance.now() - t).toFixed(0)} ms (goal: < 1000 ms)`)
 }
 
+function climatology() {
+  const g = parseCsvGrid(demoCloudCsv())
+  const m = g.months.get(8)!
+  const grids = {
+    meta: { name: 'demo', demo: 1 } as never,
+    cloud: { ...g, values: m.cloud }, clear: { ...g, values: m.clear! }, scattered: { ...g, values: m.scattered! }, broken: { ...g, values: m.broken! },
+  }
+  const rand = rng(11)
+  const pts = Array.from({ length: 10_000 }, () => [5 + rand() * 37, -12 + rand() * 64] as const)
+  for (const [lat, lon] of pts.slice(0, 500)) cloudAt(grids, lat, lon)
+  const t = performance.now()
+  let sink = 0
+  for (const [lat, lon] of pts) sink += cloudAt(grids, lat, lon).cloudPct ?? 0
+  console.log(`cloud interpolation (bilinear cloud + 3 categories + P(clear)) for 10,000 sites: ${(performance.now() - t).toFixed(1)} ms (goal: < 100 ms)${sink < 0 ? '!' : ''}`)
+}
+
 const what = process.argv[2] ?? 'all'
-const benches: Record<string, () => void | Promise<void>> = { engine, sites, tiles }
+const benches: Record<string, () => void | Promise<void>> = { engine, sites, climatology, tiles }
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)

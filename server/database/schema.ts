@@ -58,6 +58,7 @@ export interface WorkspacesTable {
   name: string
   created_by: number | null
   created_at: ColumnType<string, string | undefined, never>
+  climatology_id: ColumnType<number | null, number | null | undefined, number | null>
 }
 
 export const ROAD_ACCESS = ['paved', 'gravel', 'track', 'none', 'unknown'] as const
@@ -75,8 +76,40 @@ export interface SitesTable {
   capacity: number | null
   crosses_border: ColumnType<number, number | undefined, number>
   pinned: ColumnType<number, number | undefined, number>
+  /** Manual cloud-cover override, percent, and its source note; wins over the climatology. */
+  cloud_override_pct: ColumnType<number | null, number | null | undefined, number | null>
+  cloud_override_note: ColumnType<string | null, string | null | undefined, string | null>
   created_at: ColumnType<string, string | undefined, never>
   updated_at: ColumnType<string, string | undefined, string>
+}
+
+export interface ClimatologyDatasetsTable {
+  id: Generated<number>
+  name: string
+  source: string
+  licence: ColumnType<string, string | undefined, string>
+  years: ColumnType<string, string | undefined, string>
+  time_of_day: ColumnType<string, string | undefined, string>
+  demo: ColumnType<number, number | undefined, number>
+  format: 'geotiff' | 'csv'
+  lat0: number
+  lon0: number
+  dlat: number
+  dlon: number
+  nlat: number
+  nlon: number
+  has_categories: ColumnType<number, number | undefined, number>
+  created_by: number | null
+  created_at: ColumnType<string, string | undefined, never>
+}
+
+export interface ClimatologyGridsTable {
+  dataset_id: number
+  month: number
+  cloud_pct: Buffer
+  clear_pct: Buffer | null
+  scattered_pct: Buffer | null
+  broken_pct: Buffer | null
 }
 
 export interface Database {
@@ -87,6 +120,8 @@ export interface Database {
   eclipse_settings: EclipseSettingsTable
   workspaces: WorkspacesTable
   sites: SitesTable
+  climatology_datasets: ClimatologyDatasetsTable
+  climatology_grids: ClimatologyGridsTable
 }
 
 export type User = Selectable<UsersTable>

@@ -73,7 +73,7 @@ export function toCsv(sites: SiteOut[]): string {
     centreline_distance_km: s.metrics.centrelineDistanceKm, half_width_fraction: s.metrics.halfWidthFraction,
     duration_sec: s.metrics.durationSec, magnitude: s.metrics.magnitude, c2_utc: s.metrics.c2Utc, c2_local: s.metrics.c2Local,
     zone: s.metrics.zone, sun_altitude_deg: s.metrics.sunAltitudeDeg, sun_azimuth_deg: s.metrics.sunAzimuthDeg,
-    cloud_pct: s.metrics.cloudPct, p_clear: s.metrics.pClear, expected_sec: s.metrics.expectedSec,
+    cloud_pct: s.metrics.cloudPct, p_clear: s.metrics.pClear, expected_sec: s.metrics.expectedSec, cloud_source: s.metrics.cloudSource,
     road_access: s.roadAccess, capacity: s.capacity, crosses_border: s.crossesBorder, notes: s.notes,
   })))
 }

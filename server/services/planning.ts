@@ -49,7 +49,7 @@ export function siteOut(row: SiteRow, metrics: SiteMetrics): SiteOut {
   return {
     id: row.id, workspaceId: row.workspace_id, name: row.name, lat: row.lat, lon: row.lon, elevationM: row.elevation_m,
     notes: row.notes, roadAccess: row.road_access, capacity: row.capacity, crossesBorder: !!row.crosses_border,
-    pinned: !!row.pinned, metrics,
+    pinned: !!row.pinned, cloudOverridePct: row.cloud_override_pct ?? null, cloudOverrideNote: row.cloud_override_note ?? null, metrics,
   }
 }
 
@@ -101,6 +101,10 @@ function toValues(input: SiteCreateInput | SitePatchInput) {
   if (input.capacity !== undefined) v.capacity = input.capacity
   if (input.crossesBorder !== undefined) v.crosses_border = input.crossesBorder ? 1 : 0
   if ('pinned' in input && input.pinned !== undefined) v.pinned = input.pinned ? 1 : 0
+  if ('cloudOverridePct' in input && input.cloudOverridePct !== undefined) {
+    v.cloud_override_pct = input.cloudOverridePct
+    v.cloud_override_note = input.cloudOverridePct === null ? null : input.cloudOverrideNote ?? null
+  }
   return v
 }
 
@@ -121,6 +125,23 @@ export async function importSites(db: Kysely<Database>, user: User, workspaceId:
     await audit(trx, { action: 'sites_import', actorUserId: user.id, detail: { workspaceId, count: rows.length } })
     return rows.length
   })
+}
+
+export async function updateWorkspace(db: Kysely<Database>, user: User, id: number, patch: { name?: string; climatologyId?: number | null }) {
+  await getWorkspace(db, id)
+  if (patch.climatologyId) {
+    const d = await db.selectFrom('climatology_datasets').select('id').where('id', '=', patch.climatologyId).executeTakeFirst()
+    if (!d) throw new NotFoundError('No such climatology dataset')
+  }
+  await db.transaction().execute(async (trx) => {
+    const set: Record<string, unknown> = {}
+    if (patch.name !== undefined) set.name = patch.name
+    if (patch.climatologyId !== undefined) set.climatology_id = patch.climatologyId
+    if (Object.keys(set).length) await trx.updateTable('workspaces').set(set).where('id', '=', id).execute()
+    await audit(trx, { action: 'workspace_update', actorUserId: user.id, detail: { workspaceId: id, ...patch } })
+  })
+  const w = await getWorkspace(db, id)
+  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, climatologyId: w.climatology_id }
 }
 
 export async function getSite(db: Kysely<Database>, id: number): Promise<SiteRow> {

@@ -19,7 +19,14 @@ export const SiteCreate = z.object({
 })
 export type SiteCreateInput = z.infer<typeof SiteCreate>
 
-export const SitePatch = SiteCreate.partial().extend({ pinned: z.boolean().optional() })
+export const SitePatch = SiteCreate.partial().extend({
+  pinned: z.boolean().optional(),
+  /** Manual cloud cover for this site, percent, or null to clear it; needs a source note. */
+  cloudOverridePct: z.number({ error: 'cloudOverridePct must be a number or null' }).min(0, 'cloudOverridePct must be 0–100').max(100, 'cloudOverridePct must be 0–100').nullable().optional(),
+  cloudOverrideNote: z.string().trim().max(300).nullable().optional(),
+}).refine((v) => v.cloudOverridePct === undefined || v.cloudOverridePct === null || !!v.cloudOverrideNote, {
+  message: 'Say where the override comes from', path: ['cloudOverrideNote'],
+})
 export type SitePatchInput = z.infer<typeof SitePatch>
 
 export const WorkspaceCreate = z.object({
@@ -113,6 +120,8 @@ export interface SiteOut {
   capacity: number | null
   crossesBorder: boolean
   pinned: boolean
+  cloudOverridePct: number | null
+  cloudOverrideNote: string | null
   metrics: SiteMetrics
 }
 

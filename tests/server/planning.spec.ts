@@ -109,7 +109,7 @@ describe('planning workspaces and sites', () => {
     expect(res.status).toBe(200)
     expect(res.headers.get('content-type')).toBe('application/x-protobuf')
     expect(res.headers.get('cache-control')).toContain('max-age')
-    const tile = new VectorTile(new Pbf(new Uint8Array(await res.arrayBuffer())))
+    const tile = new VectorTile(new Pbf(new Uint8Array(await res.arrayBuffer())) as never)
     expect(Object.keys(tile.layers)).toEqual(expect.arrayContaining(['land', 'borders', 'coast', 'places']))
     expect(tile.layers.land!.length).toBeGreaterThan(0)
     const names = Array.from({ length: tile.layers.places!.length }, (_, i) => tile.layers.places!.feature(i).properties.name)

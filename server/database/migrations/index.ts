@@ -2,10 +2,12 @@ import type { Migration } from 'kysely'
 import * as m0001 from './0001_initial'
 import * as m0002 from './0002_eclipse_settings'
 import * as m0003 from './0003_planning'
+import * as m0004 from './0004_climatology'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
   '0001_initial': m0001,
   '0002_eclipse_settings': m0002,
   '0003_planning': m0003,
+  '0004_climatology': m0004,
 }

@@ -1,5 +1,7 @@
 import type { Kysely } from 'kysely'
+import { parseCsvGrid, storeDataset } from '../../services/climatology'
 import type { Database, Role } from '../schema'
+import { DEMO_CLOUD_NAME, DEMO_CLOUD_SOURCE, demoCloudCsv } from './demoCloud'
 
 /**
  * The invented demo scenario (demo data only): Kestrel Sky Journeys, a small company planning
@@ -47,4 +49,15 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
       }).execute()
     }
   })
+  // The invented demo cloud grid, chosen for the demo workspace.
+  let cloud = await db.selectFrom('climatology_datasets').select('id').where('demo', '=', 1).executeTakeFirst()
+  if (!cloud) {
+    const id = await storeDataset(db, null, {
+      name: DEMO_CLOUD_NAME, source: DEMO_CLOUD_SOURCE, licence: 'none (invented)', years: 'none (invented)',
+      timeOfDay: 'around the local time of the eclipse (invented)', demo: true,
+    }, parseCsvGrid(demoCloudCsv()))
+    cloud = { id }
+  }
+  await db.updateTable('workspaces').set({ climatology_id: cloud.id })
+    .where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).where('climatology_id', 'is', null).execute()
 }

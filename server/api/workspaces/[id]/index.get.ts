@@ -5,5 +5,5 @@ export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
   const w = await withPlanningErrors(() => getWorkspace(useDb(), id))
-  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at, climatologyId: (w as { climatology_id?: number | null }).climatology_id ?? null }
+  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at, climatologyId: w.climatology_id }
 })
