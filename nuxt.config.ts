@@ -29,6 +29,11 @@ export default defineNuxtConfig({
     dbPath: 'data/umbrafield.sqlite',
     // NUXT_SEED: 'demo' seeds the invented demo scenario at start-up (idempotent)
     seed: '',
+    // NUXT_STRIPE_SECRET_KEY, NUXT_STRIPE_WEBHOOK_SECRET; NUXT_STRIPE_API_HOST/_PORT/_PROTOCOL only for a local fake
+    stripe: { secretKey: '', webhookSecret: '', apiHost: '', apiPort: '', apiProtocol: '' },
+    // Hold length for unpaid bookings and waitlist offers
+    holdMinutes: 15,
+    offerHours: 24,
     // NUXT_PUBLIC_APP_URL
     public: { appUrl: 'http://localhost:3000' },
   },

@@ -1,5 +1,27 @@
 // The local fakes for hosted services, shared by `npm run demo` and the tests' global set-up.
 // Each entry says how to start it and which app environment variables point the app at it.
-export function fakeServices() {
-  return []
+// With real services, set the app variables yourself and do not start the fakes.
+
+/** @param {{ appPort?: string|number }} [o] */
+export function fakeServices(o = {}) {
+  const appPort = o.appPort ?? process.env.PORT ?? 3000
+  const stripePort = process.env.STRIPE_FAKE_PORT || '12111'
+  const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || 'whsec_umbrafield_local_fake'
+  return [
+    {
+      name: 'stripe-fake',
+      label: 'Stripe fake',
+      url: `http://127.0.0.1:${stripePort}`,
+      args: ['fakes/stripe/server.mjs'],
+      env: { STRIPE_FAKE_PORT: stripePort, STRIPE_WEBHOOK_SECRET: webhookSecret, STRIPE_FAKE_WEBHOOK_URL: `http://127.0.0.1:${appPort}/api/stripe/webhook` },
+      health: `http://127.0.0.1:${stripePort}/_fake/health`,
+      appEnv: {
+        NUXT_STRIPE_SECRET_KEY: 'sk_test_umbrafield_local_fake',
+        NUXT_STRIPE_WEBHOOK_SECRET: webhookSecret,
+        NUXT_STRIPE_API_HOST: '127.0.0.1',
+        NUXT_STRIPE_API_PORT: stripePort,
+        NUXT_STRIPE_API_PROTOCOL: 'http',
+      },
+    },
+  ]
 }

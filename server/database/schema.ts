@@ -112,6 +112,97 @@ export interface ClimatologyGridsTable {
   broken_pct: Buffer | null
 }
 
+type Auto<T> = ColumnType<T, T | undefined, T>
+type Created = ColumnType<string, string | undefined, never>
+
+export interface TripsTable {
+  id: Generated<number>
+  workspace_id: number
+  eclipse_id: string
+  primary_site_id: number
+  title: string
+  description: Auto<string>
+  /** Calendar dates YYYY-MM-DD. */
+  start_date: string
+  end_date: string
+  meeting_name: string
+  meeting_lat: number
+  meeting_lon: number
+  meeting_time_utc: string
+  seats: number
+  /** Money in integer minor units of `currency` (ISO 4217, lower case). */
+  price_minor: number
+  deposit_minor: number
+  currency: string
+  balance_due_date: string
+  /** JSON: [{ until: 'YYYY-MM-DD', refundPct }], ascending. */
+  cancellation_tiers: Auto<string>
+  min_group_size: Auto<number>
+  status: Auto<'draft' | 'published'>
+  /** JSON cue offsets for the guide's timetable, or null for the defaults. */
+  cue_offsets: ColumnType<string | null, string | null | undefined, string | null>
+  created_by: number | null
+  created_at: Created
+}
+
+export interface BookingsTable {
+  id: Generated<number>
+  trip_id: number
+  user_id: number
+  seats: number
+  status: 'held' | 'confirmed' | 'cancelled' | 'expired'
+  hold_expires_at: string | null
+  price_minor: number
+  deposit_minor: number
+  paid_minor: Auto<number>
+  refunded_minor: Auto<number>
+  currency: string
+  cancel_reason: ColumnType<string | null, string | null | undefined, string | null>
+  created_at: Created
+  updated_at: Auto<string>
+}
+
+export interface PaymentsTable {
+  id: Generated<number>
+  booking_id: number
+  kind: 'deposit' | 'balance'
+  amount_minor: number
+  currency: string
+  status: 'pending' | 'succeeded' | 'failed'
+  checkout_session_id: string | null
+  payment_intent_id: string | null
+  /** Random idempotency key for the Stripe calls about this payment (unique across databases). */
+  idem_key: string
+  demo: Auto<number>
+  created_at: Created
+  completed_at: string | null
+}
+
+export interface RefundsTable {
+  id: Generated<number>
+  booking_id: number
+  payment_id: number | null
+  amount_minor: number
+  reason: string
+  status: 'pending' | 'succeeded' | 'failed'
+  stripe_refund_id: string | null
+  idem_key: string
+  error: string | null
+  created_by: number | null
+  created_at: Created
+}
+
+export interface WaitlistTable {
+  id: Generated<number>
+  trip_id: number
+  user_id: number
+  seats: number
+  status: 'waiting' | 'offered' | 'accepted' | 'expired' | 'cancelled'
+  offer_expires_at: string | null
+  booking_id: number | null
+  created_at: Created
+}
+
 export interface Database {
   users: UsersTable
   audit_log: AuditLogTable
@@ -122,6 +213,15 @@ export interface Database {
   sites: SitesTable
   climatology_datasets: ClimatologyDatasetsTable
   climatology_grids: ClimatologyGridsTable
+  trips: TripsTable
+  trip_backup_sites: { trip_id: number; site_id: number; rank: number }
+  trip_guides: { trip_id: number; user_id: number }
+  bookings: BookingsTable
+  payments: PaymentsTable
+  refunds: RefundsTable
+  stripe_events: { id: string; type: string; received_at: Created }
+  stripe_customers: { user_id: number; customer_id: string }
+  waitlist: WaitlistTable
 }
 
 export type User = Selectable<UsersTable>

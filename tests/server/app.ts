@@ -2,22 +2,30 @@ import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { setup, url } from '@nuxt/test-utils/e2e'
+import { fakeServices } from '../../scripts/fakes.mjs'
+import { TEST_APP_PORT, TEST_FAKE_PORTS } from './global-setup'
 
 const rootDir = resolve(__dirname, '../..')
 
 /** Starts the built app on a fresh, demo-seeded SQLite file for this test file. */
 export async function useApp(env: Record<string, string> = {}) {
   const dir = mkdtempSync(join(tmpdir(), 'umbrafield-test-'))
+  Object.assign(process.env, TEST_FAKE_PORTS)
+  const fakeEnv = Object.assign({}, ...fakeServices({ appPort: TEST_APP_PORT }).map((f) => f.appEnv))
   await setup({
     rootDir,
     build: false,
     server: true,
     browser: false,
+    port: TEST_APP_PORT,
     nuxtConfig: { nitro: { output: { dir: resolve(rootDir, '.output') } } },
     env: {
       NUXT_DB_PATH: join(dir, 'test.sqlite'),
       NUXT_SEED: 'demo',
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
+      NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${TEST_APP_PORT}`,
+      UMBRAFIELD_HOUSEKEEPING_MS: '1000',
+      ...fakeEnv,
       ...env,
     },
   })
@@ -25,6 +33,9 @@ export async function useApp(env: Record<string, string> = {}) {
 }
 
 export interface ApiResult<T = any> { status: number; body: T; headers: Headers }
+
+/** Base URL of the Stripe fake used by the server tests. */
+export const STRIPE_FAKE = `http://127.0.0.1:${TEST_FAKE_PORTS.STRIPE_FAKE_PORT}`
 
 export async function api<T = any>(path: string, opts: { method?: string; body?: unknown; cookie?: string; raw?: BodyInit; headers?: Record<string, string> } = {}): Promise<ApiResult<T>> {
   const headers: Record<string, string> = { ...(opts.headers ?? {}) }

@@ -9,7 +9,7 @@ const { dbPath } = await useApp()
 async function upload(fields: Record<string, string>, file: { name: string; data: Uint8Array | string }, cookie: string) {
   const form = new FormData()
   for (const [k, v] of Object.entries(fields)) form.append(k, v)
-  form.append('file', new Blob([file.data]), file.name)
+  form.append('file', new Blob([file.data as BlobPart]), file.name)
   const res = await fetch(url('/api/climatology'), { method: 'POST', body: form, headers: { cookie } })
   return { status: res.status, body: await res.json() }
 }

@@ -3,6 +3,7 @@ import * as m0001 from './0001_initial'
 import * as m0002 from './0002_eclipse_settings'
 import * as m0003 from './0003_planning'
 import * as m0004 from './0004_climatology'
+import * as m0005 from './0005_trips'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -10,4 +11,5 @@ export const migrations: Record<string, Migration> = {
   '0002_eclipse_settings': m0002,
   '0003_planning': m0003,
   '0004_climatology': m0004,
+  '0005_trips': m0005,
 }

@@ -60,4 +60,39 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
   }
   await db.updateTable('workspaces').set({ climatology_id: cloud.id })
     .where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).where('climatology_id', 'is', null).execute()
+  await seedDemoTrip(db)
+}
+
+/** Demo: one published, invented trip to the Luxor site, with the demo guide and one confirmed demo booking. */
+export const DEMO_TRIP_TITLE = 'Luxor totality week, August 2027 (demo)'
+async function seedDemoTrip(db: Kysely<Database>) {
+  await db.transaction().execute(async (trx) => {
+    if (await trx.selectFrom('trips').select('id').where('title', '=', DEMO_TRIP_TITLE).executeTakeFirst()) return
+    const ws = await trx.selectFrom('workspaces').select('id').where('name', '=', DEMO_WORKSPACE.name).executeTakeFirstOrThrow()
+    const site = (name: string) => trx.selectFrom('sites').select('id').where('workspace_id', '=', ws.id).where('name', '=', name).executeTakeFirstOrThrow()
+    const luxor = await site('Luxor West Bank')
+    const backups = [await site('Qena plateau'), await site('Sohag farmland')]
+    const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
+    const guide = await trx.selectFrom('users').select('id').where('email', '=', 'guide@umbrafield.test').executeTakeFirstOrThrow()
+    const trip = await trx.insertInto('trips').values({
+      workspace_id: ws.id, eclipse_id: DEMO_WORKSPACE.eclipseId, primary_site_id: luxor.id, title: DEMO_TRIP_TITLE,
+      description: 'Demo trip by the invented company Kestrel Sky Journeys: six nights on the Nile at Luxor, with the longest totality of the century on 2 August 2027 on the West Bank. Prices and terms are invented.',
+      start_date: '2027-07-30', end_date: '2027-08-05', meeting_name: 'Hotel forecourt, Corniche el-Nil, Luxor (demo)',
+      meeting_lat: 25.6989, meeting_lon: 32.6394, meeting_time_utc: '2027-08-02T03:30:00.000Z', seats: 24,
+      price_minor: 249_000, deposit_minor: 50_000, currency: 'eur', balance_due_date: '2027-05-01',
+      cancellation_tiers: JSON.stringify([{ until: '2027-01-31', refundPct: 100 }, { until: '2027-04-30', refundPct: 50 }]),
+      min_group_size: 8, status: 'published', created_by: organiser.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    for (const [rank, b] of backups.entries()) await trx.insertInto('trip_backup_sites').values({ trip_id: trip.id, site_id: b.id, rank }).execute()
+    await trx.insertInto('trip_guides').values({ trip_id: trip.id, user_id: guide.id }).execute()
+    const samir = await trx.selectFrom('users').select('id').where('email', '=', 'traveller2@umbrafield.test').executeTakeFirstOrThrow()
+    const b = await trx.insertInto('bookings').values({
+      trip_id: trip.id, user_id: samir.id, seats: 2, status: 'confirmed', hold_expires_at: null, price_minor: 498_000, deposit_minor: 100_000,
+      paid_minor: 100_000, currency: 'eur',
+    }).returning('id').executeTakeFirstOrThrow()
+    await trx.insertInto('payments').values({
+      booking_id: b.id, kind: 'deposit', amount_minor: 100_000, currency: 'eur', status: 'succeeded', checkout_session_id: null,
+      payment_intent_id: null, demo: 1, completed_at: '2026-11-20T10:00:00.000Z', idem_key: `demo-seed-${b.id}`,
+    }).execute()
+  })
 }

@@ -1,0 +1,9 @@
+import { IdParams } from '#shared/schemas/auth'
+import { startCheckout } from '../../../services/bookings'
+
+/** Starts Stripe Checkout for what is due now (deposit, then balance); returns the hosted page URL. */
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const { id } = paramsAs(event, IdParams)
+  return withBookingErrors(() => startCheckout(useDb(), useStripe(), user, id, bookingConfig()))
+})

@@ -1,0 +1,10 @@
+import { TripCreate } from '#shared/schemas/trips'
+import { createTrip } from '../../services/trips'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'organiser')
+  const body = await readBodyAs(event, TripCreate)
+  const trip = await withBookingErrors(() => createTrip(useDb(), user, body))
+  setResponseStatus(event, 201)
+  return trip
+})

@@ -1,0 +1,29 @@
+import { describe, expect, it } from 'vitest'
+import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, useApp } from './app'
+
+// Holds of 3 seconds so that lapsing can be watched.
+await useApp({ NUXT_HOLD_MINUTES: '0.05' })
+
+describe('lapsed holds', () => {
+  it('a declined card leaves the hold to lapse, and the seats return', async () => {
+    const org = await signIn(ORGANISER)
+    const trip = await api('/api/trips', { method: 'POST', cookie: org, body: {
+      workspaceId: 1, primarySiteId: 4, title: 'Two-seat trip', startDate: '2027-07-31', endDate: '2027-08-03', seats: 2,
+      priceMinor: 1000, depositMinor: 500, currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'Hotel', lat: 25.69, lon: 32.64, time: '2027-08-02T03:30:00Z' },
+    } })
+    await api(`/api/trips/${trip.body.id}/publish`, { method: 'POST', cookie: org })
+    const trav = await signIn(TRAVELLER)
+    const hold = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
+    expect(hold.status).toBe(201)
+    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })).body.data.code).toBe('sold_out')
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    const r = await (await fetch(`${STRIPE_FAKE}/_fake/checkout/sessions/${c.body.url.split('/pay/')[1]}/complete`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ outcome: 'declined' }) })).json()
+    expect(r.ok).toBe(false)
+    expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('held')
+    await new Promise((res) => setTimeout(res, 3500))
+    const again = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
+    expect(again.status).toBe(201)
+    expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('expired')
+    expect((await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })).status).toBe(409)
+  })
+})
