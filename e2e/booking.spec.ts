@@ -1,0 +1,47 @@
+import { expect, signInAs, test } from './fixtures'
+
+test('a traveller books two seats, pays the deposit on the payment page, and the organiser sees it', async ({ page, browser }) => {
+  await signInAs(page, 'traveller@umbrafield.test')
+  await page.goto('/trips')
+  await page.getByRole('link', { name: /Luxor totality week/ }).click()
+  await expect(page.getByRole('heading', { name: /At Luxor West Bank/ })).toBeVisible()
+  await expect(page.getByRole('note', { name: 'Eye safety' })).toContainText('ISO 12312-2')
+  await page.getByLabel('Seats').fill('2')
+  await page.getByRole('button', { name: /Hold 2 seats/ }).click()
+  await expect(page.getByTestId('booking-status')).toHaveText('held')
+  await page.getByRole('button', { name: /Pay deposit/ }).click()
+  // The local fake's hosted page (127.0.0.1 — still this machine)
+  await expect(page.getByText('TEST PAYMENT — local fake')).toBeVisible()
+  await page.getByLabel('Card number').fill('4242 4242 4242 4242')
+  await page.getByRole('button', { name: /^Pay/ }).click()
+  await expect(page).toHaveURL(/\/bookings\/\d+\?paid=1/)
+  await expect(page.getByTestId('booking-status')).toHaveText('confirmed', { timeout: 15_000 })
+  await expect(page.getByTestId('paid')).toHaveText('€1,000.00')
+  await expect(page.getByRole('cell', { name: 'deposit' })).toBeVisible()
+  const bookingUrl = page.url()
+
+  const orgCtx = await browser.newContext()
+  const org = await orgCtx.newPage()
+  await signInAs(org, 'organiser@umbrafield.test')
+  await org.goto('/trips/1/manage')
+  await expect(org.getByRole('table', { name: 'Bookings' }).getByRole('row').filter({ hasText: 'Aiko Brennan' })).toContainText('confirmed')
+  await orgCtx.close()
+
+  // Cancel inside the first tier: the whole deposit comes back.
+  await page.goto(bookingUrl.replace(/\?.*/, ''))
+  page.once('dialog', (d) => d.accept())
+  await page.getByRole('button', { name: 'Cancel booking' }).click()
+  await expect(page.getByRole('status').filter({ hasText: 'Cancelled' })).toHaveText('Cancelled. Refund: €1,000.00.')
+})
+
+test('a declined card leaves the booking held', async ({ page }) => {
+  await signInAs(page, 'traveller@umbrafield.test')
+  await page.goto('/trips/1')
+  await page.getByRole('button', { name: /Hold 1 seat/ }).click()
+  await page.getByRole('button', { name: /Pay deposit/ }).click()
+  await page.getByLabel('Card number').fill('4000 0000 0000 0002')
+  await page.getByRole('button', { name: /^Pay/ }).click()
+  await expect(page.getByRole('alert')).toHaveText('Your card was declined.')
+  await page.getByRole('link', { name: 'Cancel and go back' }).click()
+  await expect(page.getByTestId('booking-status')).toHaveText('held')
+})
