@@ -146,8 +146,39 @@ function climatology() {
   console.log(`cloud interpolation (bilinear cloud + 3 categories + P(clear)) for 10,000 sites: ${(performance.now() - t).toFixed(1)} ms (goal: < 100 ms)${sink < 0 ? '!' : ''}`)
 }
 
+async function booking() {
+  const app = await startApp()
+  try {
+    const signIn = async (email: string) => {
+      const r = await fetch(`${app.base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: 'eclipse-demo' }) })
+      return r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    }
+    const post = (path: string, body: unknown, cookie: string) => fetch(`${app.base}${path}`, { method: 'POST', headers: { 'content-type': 'application/json', cookie }, body: JSON.stringify(body) })
+    const org = await signIn('organiser@umbrafield.test')
+    const trip = await (await post('/api/trips', {
+      workspaceId: 1, primarySiteId: 4, title: 'Bench trip', startDate: '2027-07-31', endDate: '2027-08-03', seats: 40, priceMinor: 1000, depositMinor: 100,
+      currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'x', lat: 25.7, lon: 32.6, time: '2027-08-02T03:30:00Z' },
+    }, org)).json() as { id: number }
+    await post(`/api/trips/${trip.id}/publish`, {}, org)
+    const trav = await signIn('traveller@umbrafield.test')
+    const times: number[] = []
+    const statuses: number[] = []
+    await Promise.all(Array.from({ length: 100 }, async () => {
+      const t = performance.now()
+      const r = await post(`/api/trips/${trip.id}/bookings`, { seats: 1 }, trav)
+      times.push(performance.now() - t)
+      statuses.push(r.status)
+    }))
+    times.sort((a, b) => a - b)
+    console.log(`booking burst: 100 parallel requests for 40 seats → ${statuses.filter((x) => x === 201).length} held, ${statuses.filter((x) => x === 409).length} sold out`)
+    console.log(`booking p50 ${percentile(times, 50).toFixed(1)} ms, p95 ${percentile(times, 95).toFixed(1)} ms`)
+  } finally {
+    app.stop()
+  }
+}
+
 const what = process.argv[2] ?? 'all'
-const benches: Record<string, () => void | Promise<void>> = { engine, sites, climatology, tiles }
+const benches: Record<string, () => void | Promise<void>> = { engine, sites, climatology, tiles, booking }
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)

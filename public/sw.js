@@ -1,0 +1,34 @@
+// Umbrafield service worker: keeps the day-of countdown usable with no signal.
+// Network first for the countdown page, its data and the app's assets; the cache answers when offline.
+const CACHE = 'umbrafield-countdown-v1'
+
+self.addEventListener('install', () => self.skipWaiting())
+self.addEventListener('activate', (e) => e.waitUntil(self.clients.claim()))
+
+const cacheable = (url) =>
+  url.origin === self.location.origin && (
+    /^\/trips\/\d+\/countdown\/\d+/.test(url.pathname) ||
+    /^\/api\/trips\/\d+\/timetable$/.test(url.pathname) ||
+    url.pathname.startsWith('/_nuxt/') || url.pathname === '/logo.svg')
+
+self.addEventListener('fetch', (e) => {
+  const url = new URL(e.request.url)
+  if (e.request.method !== 'GET' || !cacheable(url)) return
+  e.respondWith(
+    fetch(e.request)
+      .then((res) => {
+        if (res.ok) { const copy = res.clone(); caches.open(CACHE).then((c) => c.put(e.request, copy)) }
+        return res
+      })
+      .catch(() => caches.match(e.request, { ignoreSearch: true }).then((r) => r || Response.error())),
+  )
+})
+
+// The page sends what it loaded before the worker took control, so that it is cached too.
+self.addEventListener('message', (e) => {
+  if (e.data?.type !== 'cache-urls') return
+  e.waitUntil(caches.open(CACHE).then((c) => Promise.all(e.data.urls.map((u) =>
+    fetch(u, { credentials: 'same-origin' }).then((res) => (res.ok ? c.put(u, res) : undefined)).catch(() => undefined)))).then(() => {
+    e.source?.postMessage({ type: 'cached', count: e.data.urls.length })
+  }))
+})

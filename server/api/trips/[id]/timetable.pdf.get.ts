@@ -1,0 +1,16 @@
+import { z } from 'zod'
+import { IdParams } from '#shared/schemas/auth'
+import { assertTimetableAccess, timetable } from '../../../services/timetable'
+import { timetablePdf } from '../../../services/timetablePdf'
+
+const Query = z.object({ paper: z.enum(['a4', 'letter']).default('a4') })
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'organiser', 'guide')
+  const { id } = paramsAs(event, IdParams)
+  const { paper } = queryAs(event, Query)
+  const t = await withBookingErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
+  const pdf = await timetablePdf(t, paper)
+  setResponseHeaders(event, { 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="umbrafield-timetable-trip-${id}.pdf"` })
+  return pdf
+})
