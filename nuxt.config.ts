@@ -32,6 +32,8 @@ export default defineNuxtConfig({
     // NUXT_STRIPE_SECRET_KEY, NUXT_STRIPE_WEBHOOK_SECRET; NUXT_STRIPE_API_HOST/_PORT/_PROTOCOL only for a local fake
     stripe: { secretKey: '', webhookSecret: '', apiHost: '', apiPort: '', apiProtocol: '' },
     // Hold length for unpaid bookings and waitlist offers
+    // NUXT_MAIL_SMTP_HOST/_PORT/_SECURE/_USER/_PASS, NUXT_MAIL_FROM — SMTP for the outbox worker
+    mail: { smtpHost: '', smtpPort: '', smtpSecure: 'false', smtpUser: '', smtpPass: '', from: 'Umbrafield <no-reply@umbrafield.test>' },
     holdMinutes: 15,
     offerHours: 24,
     // NUXT_PUBLIC_APP_URL

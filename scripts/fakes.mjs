@@ -7,7 +7,24 @@ export function fakeServices(o = {}) {
   const appPort = o.appPort ?? process.env.PORT ?? 3000
   const stripePort = process.env.STRIPE_FAKE_PORT || '12111'
   const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || 'whsec_umbrafield_local_fake'
+  const smtpPort = process.env.MAIL_FAKE_SMTP_PORT || '1025'
+  const webPort = process.env.MAIL_FAKE_WEB_PORT || '1080'
   return [
+    {
+      name: 'mail-catcher',
+      label: 'Mail inbox',
+      url: `http://127.0.0.1:${webPort}`,
+      // maildev: SMTP and web inbox, bound to loopback only; REST listing at /api/email.
+      args: ['node_modules/maildev/dist/bin/maildev.js', '--smtp', smtpPort, '--web', webPort, '--ip', '127.0.0.1', '--web-ip', '127.0.0.1', '--silent'],
+      env: {},
+      health: `http://127.0.0.1:${webPort}/api/email`,
+      appEnv: {
+        NUXT_MAIL_SMTP_HOST: '127.0.0.1',
+        NUXT_MAIL_SMTP_PORT: smtpPort,
+        NUXT_MAIL_SMTP_SECURE: 'false',
+        NUXT_MAIL_FROM: 'Kestrel Sky Journeys (demo) <trips@umbrafield.test>',
+      },
+    },
     {
       name: 'stripe-fake',
       label: 'Stripe fake',

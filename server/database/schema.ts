@@ -203,6 +203,29 @@ export interface WaitlistTable {
   created_at: Created
 }
 
+export interface OutboxTable {
+  id: Generated<number>
+  message_id: string
+  dedupe_key: string | null
+  kind: string
+  to_email: string
+  to_name: Auto<string>
+  subject: string
+  html: string
+  text: string
+  /** JSON: [{ filename, content, contentType }]. */
+  attachments: Auto<string>
+  status: Auto<'queued' | 'sending' | 'sent' | 'failed'>
+  attempts: Auto<number>
+  next_attempt_at: string
+  last_error: string | null
+  booking_id: number | null
+  trip_id: number | null
+  created_at: Created
+  sending_since: string | null
+  sent_at: string | null
+}
+
 export interface Database {
   users: UsersTable
   audit_log: AuditLogTable
@@ -222,6 +245,7 @@ export interface Database {
   stripe_events: { id: string; type: string; received_at: Created }
   stripe_customers: { user_id: number; customer_id: string }
   waitlist: WaitlistTable
+  outbox: OutboxTable
 }
 
 export type User = Selectable<UsersTable>

@@ -4,6 +4,7 @@ import type Stripe from 'stripe'
 import { refundPctOn } from '../../shared/schemas/trips'
 import type { BookingsTable, Database, User } from '../database/schema'
 import { audit } from './audit'
+import { mailBookingConfirmed, mailBookingHeld, mailReceipt, mailRefund, mailWaitlistOffer } from './bookingMail'
 import { NotFoundError } from './planning'
 import { getTripRow, seatUse, tiersOf } from './trips'
 
@@ -40,6 +41,7 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
   for (const w of waiting) {
     if (w.seats > free) continue
     await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(Date.now() + cfg.offerHours * 3600_000) }).where('id', '=', w.id).execute()
+    await mailWaitlistOffer(trx, w.id, cfg.appUrl)
     free -= w.seats
     offered.push(w.id)
   }
@@ -64,6 +66,7 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     await trx.updateTable('waitlist').set({ status: 'accepted', booking_id: b.id })
       .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').execute()
     await audit(trx, { action: 'booking_hold', actorUserId: user.id, detail: { bookingId: b.id, tripId, seats } })
+    await mailBookingHeld(trx, b.id, cfg.appUrl)
     return { id: b.id, status: 'held' as const, holdExpiresAt }
   })
 }
@@ -177,6 +180,8 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
     if (trip.seats - (use.taken - mine) - use.offered >= b.seats) {
       await trx.updateTable('bookings').set({ status: 'confirmed', paid_minor: paid, hold_expires_at: null, updated_at: iso() }).where('id', '=', b.id).execute()
       await audit(trx, { action: 'booking_confirmed', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: p.amount_minor } })
+      await mailBookingConfirmed(trx, b.id, cfg.appUrl)
+      await mailReceipt(trx, p.id, cfg.appUrl)
       return {}
     }
     // Paid after the hold lapsed and the seats went to someone else: give the money back.
@@ -186,7 +191,7 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
   }
   await trx.updateTable('bookings').set({ paid_minor: paid, updated_at: iso() }).where('id', '=', b.id).execute()
   await audit(trx, { action: 'payment_received', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: p.amount_minor, kind: p.kind } })
-  void cfg
+  await mailReceipt(trx, p.id, cfg.appUrl)
   return {}
 }
 
@@ -218,15 +223,16 @@ export async function handleStripeEvent(db: Kysely<Database>, stripe: Stripe, ev
     }
     return {}
   })
-  if ('refund' in result && result.refund) await refundLatePayment(db, stripe, result.refund)
+  if ('refund' in result && result.refund) await refundLatePayment(db, stripe, result.refund, cfg.appUrl)
   return result
 }
 
-async function refundLatePayment(db: Kysely<Database>, stripe: Stripe, r: { bookingId: number; paymentId: number; intent: string; amount: number }) {
+async function refundLatePayment(db: Kysely<Database>, stripe: Stripe, r: { bookingId: number; paymentId: number; intent: string; amount: number }, appUrl: string) {
   const row = await db.transaction().execute(async (trx) => {
     const rr = await trx.insertInto('refunds').values({ booking_id: r.bookingId, payment_id: r.paymentId, amount_minor: r.amount, reason: 'automatic: paid after the hold lapsed', status: 'pending', stripe_refund_id: null, error: null, created_by: null, idem_key: randomUUID() })
       .returning('id').executeTakeFirstOrThrow()
     await trx.updateTable('bookings').set((eb) => ({ refunded_minor: eb('refunded_minor', '+', r.amount) })).where('id', '=', r.bookingId).execute()
+    await mailRefund(trx, r.bookingId, r.amount, 'automatic: paid after the hold lapsed', appUrl)
     return rr
   })
   await sendRefund(db, stripe, row.id, r.intent, r.amount)
@@ -236,7 +242,7 @@ async function refundLatePayment(db: Kysely<Database>, stripe: Stripe, r: { book
  * Refunds `amount` across the booking's card payments (newest first) and records each part.
  * Demo-seeded payments (no card) are recorded as refunded without a Stripe call.
  */
-async function refundAcrossPayments(db: Kysely<Database>, stripe: Stripe, bookingId: number, amount: number, reason: string, actorId: number | null) {
+async function refundAcrossPayments(db: Kysely<Database>, stripe: Stripe, bookingId: number, amount: number, reason: string, actorId: number | null, appUrl: string) {
   const payments = await db.selectFrom('payments').selectAll().where('booking_id', '=', bookingId).where('status', '=', 'succeeded').orderBy('id', 'desc').execute()
   const refunded = await db.selectFrom('refunds').select(['payment_id', 'amount_minor']).where('booking_id', '=', bookingId).where('status', '!=', 'failed').execute()
   let left = amount
@@ -253,6 +259,7 @@ async function refundAcrossPayments(db: Kysely<Database>, stripe: Stripe, bookin
       left -= part
     }
     await trx.updateTable('bookings').set((eb) => ({ refunded_minor: eb('refunded_minor', '+', amount - left), updated_at: iso() })).where('id', '=', bookingId).execute()
+    if (amount - left > 0) await mailRefund(trx, bookingId, amount - left, reason, appUrl)
   })
   for (const p of parts) if (p.intent) await sendRefund(db, stripe, p.id, p.intent, p.amount)
   return amount - left
@@ -273,15 +280,15 @@ export async function cancelBooking(db: Kysely<Database>, stripe: Stripe | null,
     await offerWaitlist(trx, b.trip_id, cfg)
   })
   let sent = 0
-  if (refundMinor > 0) sent = await refundAcrossPayments(db, stripe!, b.id, refundMinor, `cancellation, ${pct}% tier`, user.id)
+  if (refundMinor > 0) sent = await refundAcrossPayments(db, stripe!, b.id, refundMinor, `cancellation, ${pct}% tier`, user.id, cfg.appUrl)
   return { id: b.id, status: 'cancelled' as const, refundPct: pct, refundMinor: sent }
 }
 
 /** An organiser's manual refund with a reason, written to the audit log. */
-export async function manualRefund(db: Kysely<Database>, stripe: Stripe, organiser: User, bookingId: number, amount: number, reason: string) {
+export async function manualRefund(db: Kysely<Database>, stripe: Stripe, organiser: User, bookingId: number, amount: number, reason: string, cfg: BookingConfig) {
   const b = await bookingFor(db, organiser, bookingId)
   if (amount > b.paid_minor - b.refunded_minor) throw new BookingStateError(`At most ${b.paid_minor - b.refunded_minor} can be refunded`)
-  const sent = await refundAcrossPayments(db, stripe, b.id, amount, `manual: ${reason}`, organiser.id)
+  const sent = await refundAcrossPayments(db, stripe, b.id, amount, `manual: ${reason}`, organiser.id, cfg.appUrl)
   await audit(db, { action: 'manual_refund', actorUserId: organiser.id, subjectUserId: b.user_id, detail: { bookingId: b.id, amountMinor: sent, reason } })
   return { refundMinor: sent }
 }
@@ -301,7 +308,7 @@ export async function reconcilePayments(db: Kysely<Database>, stripe: Stripe, cf
       continue
     }
     const r = await db.transaction().execute((trx) => completePayment(trx, p.id, typeof s.payment_intent === 'string' ? s.payment_intent : null, cfg))
-    if (r.refund) await refundLatePayment(db, stripe, r.refund)
+    if (r.refund) await refundLatePayment(db, stripe, r.refund, cfg.appUrl)
     completed++
   }
   return completed

@@ -40,7 +40,8 @@ describe('planning workspaces and sites', () => {
     const aswan = r.body.data.find((s: { name: string }) => s.name.startsWith('Aswan'))
     expect(aswan.metrics.durationSec).toBe(0)
     expect(aswan.metrics.magnitude).toBeGreaterThan(0.9)
-    expect(aswan.metrics.cloudNote).toBe('no climatology loaded')
+    // The demo workspace uses the invented demo cloud grid, and says so.
+    expect(aswan.metrics.cloudSource).toContain('Demo data — not a real climatology')
   })
 
   it('creates a site, or names the bad field; guides cannot edit', async () => {

@@ -4,6 +4,7 @@ import * as m0002 from './0002_eclipse_settings'
 import * as m0003 from './0003_planning'
 import * as m0004 from './0004_climatology'
 import * as m0005 from './0005_trips'
+import * as m0006 from './0006_outbox'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -12,4 +13,5 @@ export const migrations: Record<string, Migration> = {
   '0003_planning': m0003,
   '0004_climatology': m0004,
   '0005_trips': m0005,
+  '0006_outbox': m0006,
 }

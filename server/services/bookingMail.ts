@@ -1,0 +1,65 @@
+import type { Kysely, Transaction } from 'kysely'
+import type { Database } from '../database/schema'
+import { dueOf } from './bookings'
+import * as T from './mailTemplates'
+import { enqueueMail } from './outbox'
+
+type Db = Kysely<Database> | Transaction<Database>
+
+async function data(db: Db, bookingId: number, appUrl: string) {
+  const b = await db.selectFrom('bookings').selectAll().where('id', '=', bookingId).executeTakeFirstOrThrow()
+  const u = await db.selectFrom('users').select(['name', 'email']).where('id', '=', b.user_id).executeTakeFirstOrThrow()
+  const t = await db.selectFrom('trips').select(['id', 'title', 'balance_due_date']).where('id', '=', b.trip_id).executeTakeFirstOrThrow()
+  return {
+    b, u, t,
+    d: { name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
+  }
+}
+
+export async function mailBookingHeld(db: Db, bookingId: number, appUrl: string) {
+  const { b, u, d } = await data(db, bookingId, appUrl)
+  await enqueueMail(db, { kind: 'booking-held', to: { email: u.email, name: u.name }, bookingId, tripId: b.trip_id, ...T.bookingHeld({ ...d, holdExpiresAt: b.hold_expires_at!, depositMinor: b.deposit_minor }) })
+}
+
+export async function mailBookingConfirmed(db: Db, bookingId: number, appUrl: string) {
+  const { b, u, t, d } = await data(db, bookingId, appUrl)
+  await enqueueMail(db, { kind: 'booking-confirmed', to: { email: u.email, name: u.name }, bookingId, tripId: b.trip_id, ...T.bookingConfirmed({ ...d, balanceDueDate: t.balance_due_date }) })
+}
+
+export async function mailReceipt(db: Db, paymentId: number, appUrl: string) {
+  const p = await db.selectFrom('payments').selectAll().where('id', '=', paymentId).executeTakeFirstOrThrow()
+  const { b, u, d } = await data(db, p.booking_id, appUrl)
+  await enqueueMail(db, { kind: 'payment-receipt', to: { email: u.email, name: u.name }, bookingId: b.id, tripId: b.trip_id, ...T.paymentReceipt({ ...d, amountMinor: p.amount_minor, kind: p.kind, reference: p.payment_intent_id, paidAt: p.completed_at ?? new Date().toISOString() }) })
+}
+
+export async function mailRefund(db: Db, bookingId: number, amountMinor: number, reason: string, appUrl: string) {
+  const { b, u, d } = await data(db, bookingId, appUrl)
+  await enqueueMail(db, { kind: 'refund-issued', to: { email: u.email, name: u.name }, bookingId, tripId: b.trip_id, ...T.refundIssued({ ...d, amountMinor, reason }) })
+}
+
+export async function mailWaitlistOffer(db: Db, waitlistId: number, appUrl: string) {
+  const w = await db.selectFrom('waitlist').selectAll().where('id', '=', waitlistId).executeTakeFirstOrThrow()
+  const u = await db.selectFrom('users').select(['name', 'email']).where('id', '=', w.user_id).executeTakeFirstOrThrow()
+  const t = await db.selectFrom('trips').select(['id', 'title']).where('id', '=', w.trip_id).executeTakeFirstOrThrow()
+  await enqueueMail(db, { kind: 'waitlist-offer', to: { email: u.email, name: u.name }, tripId: t.id, ...T.waitlistOffer({ name: u.name, tripTitle: t.title, seats: w.seats, offerExpiresAt: w.offer_expires_at!, tripUrl: `${appUrl}/trips/${t.id}` }) })
+}
+
+/** Scheduled: a reminder 30 and 7 days before the balance is due, once each per booking. */
+export async function queueBalanceReminders(db: Kysely<Database>, appUrl: string, today = new Date()) {
+  const rows = await db.selectFrom('bookings').innerJoin('trips', 'trips.id', 'bookings.trip_id').select(['bookings.id', 'trips.balance_due_date'])
+    .where('bookings.status', '=', 'confirmed').whereRef('bookings.paid_minor', '<', 'bookings.price_minor').execute()
+  let queued = 0
+  for (const r of rows) {
+    const days = Math.ceil((Date.parse(`${r.balance_due_date}T00:00:00Z`) - today.getTime()) / 86_400_000)
+    const threshold = days < 0 ? null : days <= 7 ? 7 : days <= 30 ? 30 : null
+    if (threshold === null) continue
+    await db.transaction().execute(async (trx) => {
+      const { b, u, t, d } = await data(trx, r.id, appUrl)
+      const before = await trx.selectFrom('outbox').select('id').where('dedupe_key', '=', `balance-${threshold}-${b.id}`).executeTakeFirst()
+      if (before) return
+      await enqueueMail(trx, { kind: 'balance-reminder', dedupeKey: `balance-${threshold}-${b.id}`, to: { email: u.email, name: u.name }, bookingId: b.id, tripId: b.trip_id, ...T.balanceReminder({ ...d, balanceDueDate: t.balance_due_date, daysBefore: threshold }) })
+      queued++
+    })
+  }
+  return queued
+}

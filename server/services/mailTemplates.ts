@@ -1,0 +1,91 @@
+import { formatMoney } from '../../shared/schemas/trips'
+import { SAFETY_LINES } from '../../shared/schemas/cues'
+
+export interface Mail { subject: string; html: string; text: string }
+
+const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;')
+
+/** Umbrafield's mail frame: indigo band, gold rule, paper body; plain text alongside. */
+function frame(title: string, bodyHtml: string, bodyText: string, footer = 'Sent by Umbrafield on behalf of your eclipse trip organiser.'): Mail {
+  const html = `<!doctype html><html><body style="margin:0;background:#fbf9f4;font-family:'Work Sans',Arial,sans-serif;color:#1a1633">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0"><tr><td align="center" style="padding:24px 12px">
+<table role="presentation" width="600" cellpadding="0" cellspacing="0" style="max-width:600px;background:#ffffff;border:1px solid #e9e7f4;border-radius:10px">
+<tr><td style="background:#1a1633;color:#fdefc9;padding:18px 24px;border-radius:10px 10px 0 0;font-size:18px;font-weight:700">Umbrafield<div style="height:3px;background:#eeae33;margin-top:10px;width:64px"></div></td></tr>
+<tr><td style="padding:24px;font-size:15px;line-height:1.55"><h1 style="font-size:20px;margin:0 0 12px">${esc(title)}</h1>${bodyHtml}</td></tr>
+<tr><td style="padding:14px 24px;color:#62579b;font-size:12px;border-top:1px solid #e9e7f4">${esc(footer)}</td></tr>
+</table></td></tr></table></body></html>`
+  return { subject: title, html, text: `${title}\n${'='.repeat(title.length)}\n\n${bodyText}\n\n--\n${footer}\n` }
+}
+
+const p = (s: string) => `<p style="margin:0 0 12px">${s}</p>`
+const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
+const safetyHtml = () => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${SAFETY_LINES.map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
+const safetyText = () => `EYE SAFETY\n${SAFETY_LINES.map((l) => `- ${l}`).join('\n')}`
+
+export interface BookingMailData { name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string }
+
+export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
+  const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
+  return frame(`Seats held: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.'),
+    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.`)
+}
+
+export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
+  return frame(`Booking confirmed: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(),
+    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText()}`)
+}
+
+export function paymentReceipt(d: BookingMailData & { amountMinor: number; kind: string; reference: string | null; paidAt: string }): Mail {
+  return frame(`Receipt: ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`We received <strong>${formatMoney(d.amountMinor, d.currency)}</strong> (${esc(d.kind)}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${esc(d.reference ?? '—')}.`) + p(`Paid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`) + button(d.bookingUrl, 'Your booking'),
+    `Hello ${d.name},\n\nWe received ${formatMoney(d.amountMinor, d.currency)} (${d.kind}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${d.reference ?? '—'}.\nPaid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n${d.bookingUrl}`)
+}
+
+export function balanceReminder(d: BookingMailData & { balanceDueDate: string; daysBefore: number }): Mail {
+  return frame(`Balance due in ${d.daysBefore} days: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`A friendly reminder: the balance of <strong>${formatMoney(d.dueMinor, d.currency)}</strong> is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'Pay the balance'),
+    `Hello ${d.name},\n\nA friendly reminder: the balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}`)
+}
+
+export function refundIssued(d: BookingMailData & { amountMinor: number; reason: string }): Mail {
+  return frame(`Refund issued: ${formatMoney(d.amountMinor, d.currency)}`,
+    p(`Hello ${esc(d.name)},`) + p(`We have refunded <strong>${formatMoney(d.amountMinor, d.currency)}</strong> for ${esc(d.tripTitle)} (${esc(d.reason)}). Card refunds usually show within 5–10 working days.`) + button(d.bookingUrl, 'Your booking'),
+    `Hello ${d.name},\n\nWe have refunded ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle} (${d.reason}). Card refunds usually show within 5–10 working days.\n${d.bookingUrl}`)
+}
+
+export function waitlistOffer(d: { name: string; tripTitle: string; seats: number; offerExpiresAt: string; tripUrl: string }): Mail {
+  return frame(`A seat has freed up: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`${d.seats} seat${d.seats > 1 ? 's are' : ' is'} now held for you until <strong>${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC</strong>. Book before then to take ${d.seats > 1 ? 'them' : 'it'}.`) + button(d.tripUrl, 'Book now'),
+    `Hello ${d.name},\n\n${d.seats} seat(s) are now held for you until ${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC. Book before then:\n${d.tripUrl}`)
+}
+
+export interface ItineraryData extends BookingMailData {
+  meeting: { name: string; local: string; utcOffset: string; zone: string }
+  site: { name: string; lat: number; lon: number; mapUrl: string; zone: string }
+  contacts: Array<{ label: string; local: string; utc: string }>
+  durationSec: number
+  bring: string[]
+  organiser: { name: string; email: string }
+}
+
+export function itinerary(d: ItineraryData): Mail {
+  const rows = d.contacts.map((c) => `<tr><td style="padding:4px 8px 4px 0">${esc(c.label)}</td><td style="padding:4px 8px;font-weight:700">${esc(c.local)}</td><td style="padding:4px 0;color:#62579b">${esc(c.utc)} UT</td></tr>`).join('')
+  const html = p(`Hello ${esc(d.name)},`) + p(`Here is your itinerary for <strong>${esc(d.tripTitle)}</strong> (${d.seats} seat${d.seats > 1 ? 's' : ''}). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`)
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Meeting point</h2>` + p(`${esc(d.meeting.name)} — <strong>${esc(d.meeting.local)}</strong> local time (UTC${esc(d.meeting.utcOffset)}, ${esc(d.meeting.zone)}).`)
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. Central phase: ${d.durationSec.toFixed(0)} s.`)
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>`
+    + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
+    + safetyHtml() + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
+  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\nCentral phase: ${d.durationSec.toFixed(0)} s\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UT)`).join('\n')}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText()}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
+  return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
+}
+
+export const WHAT_TO_BRING = [
+  'ISO 12312-2 eclipse glasses (we hand out spares, but bring your own pair)',
+  'Solar filters for the front of any camera, binoculars or telescope',
+  'Sun hat, sunscreen and at least two litres of water',
+  'A red torch for the early start',
+  'Your booking reference and passport',
+]

@@ -1,0 +1,94 @@
+import { randomUUID } from 'node:crypto'
+import type { Kysely, Transaction } from 'kysely'
+import nodemailer, { type Transporter } from 'nodemailer'
+import type { Database } from '../database/schema'
+import type { Mail } from './mailTemplates'
+
+type Db = Kysely<Database> | Transaction<Database>
+
+export interface OutgoingMail extends Mail {
+  kind: string
+  to: { email: string; name?: string }
+  attachments?: Array<{ filename: string; content: string; contentType: string }>
+  bookingId?: number | null
+  tripId?: number | null
+  /** Scheduled mail: at most one message per key. */
+  dedupeKey?: string
+}
+
+/** Writes a message to the outbox, inside the caller's transaction: it goes out only if the event commits. */
+export async function enqueueMail(db: Db, m: OutgoingMail): Promise<void> {
+  await db.insertInto('outbox').values({
+    message_id: `<${randomUUID()}@umbrafield>`, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
+    subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: new Date().toISOString(),
+    last_error: null, booking_id: m.bookingId ?? null, trip_id: m.tripId ?? null, sending_since: null, sent_at: null,
+  }).onConflict((oc) => oc.column('dedupe_key').doNothing()).execute()
+}
+
+export interface MailConfig { host: string; port: number; secure: boolean; user?: string; pass?: string; from: string }
+
+export function makeTransport(c: MailConfig): Transporter {
+  return nodemailer.createTransport({
+    host: c.host, port: c.port, secure: c.secure, auth: c.user ? { user: c.user, pass: c.pass } : undefined,
+    connectionTimeout: 5000, greetingTimeout: 5000, socketTimeout: 10000,
+  })
+}
+
+export const OUTBOX = {
+  maxAttempts: Number(process.env.UMBRAFIELD_MAIL_MAX_ATTEMPTS || 10),
+  baseBackoffMs: Number(process.env.UMBRAFIELD_MAIL_BACKOFF_MS || 5000),
+  capBackoffMs: 3600_000,
+  /** A message left "sending" this long (a crash mid-send) is tried again, with the same Message-ID. */
+  stuckAfterMs: 120_000,
+}
+
+/**
+ * Sends what is due, one message at a time: claim (queued → sending), send, and mark sent only
+ * after the SMTP server accepted it. Failures retry with exponential backoff, then give up as failed.
+ */
+export async function processOutbox(db: Kysely<Database>, transport: Transporter, from: string, limit = 20): Promise<{ sent: number; failed: number }> {
+  const now = new Date()
+  await db.updateTable('outbox').set({ status: 'queued', sending_since: null })
+    .where('status', '=', 'sending').where('sending_since', '<', new Date(now.getTime() - OUTBOX.stuckAfterMs).toISOString()).execute()
+  const due = await db.selectFrom('outbox').selectAll().where('status', '=', 'queued').where('next_attempt_at', '<=', now.toISOString())
+    .orderBy('id').limit(limit).execute()
+  let sent = 0, failed = 0
+  for (const m of due) {
+    const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() })
+      .where('id', '=', m.id).where('status', '=', 'queued').executeTakeFirst()
+    if (!claim.numUpdatedRows) continue
+    try {
+      await transport.sendMail({
+        messageId: m.message_id, from, to: m.to_name ? { name: m.to_name, address: m.to_email } : m.to_email,
+        subject: m.subject, html: m.html, text: m.text, attachments: JSON.parse(m.attachments),
+      })
+      await db.updateTable('outbox').set({ status: 'sent', sent_at: new Date().toISOString(), attempts: m.attempts + 1, last_error: null, sending_since: null }).where('id', '=', m.id).execute()
+      sent++
+    } catch (e) {
+      const attempts = m.attempts + 1
+      const give = attempts >= OUTBOX.maxAttempts
+      const wait = Math.min(OUTBOX.capBackoffMs, OUTBOX.baseBackoffMs * 2 ** (attempts - 1))
+      await db.updateTable('outbox').set({
+        status: give ? 'failed' : 'queued', attempts, last_error: (e as Error).message.slice(0, 500), sending_since: null,
+        next_attempt_at: new Date(Date.now() + wait).toISOString(),
+      }).where('id', '=', m.id).execute()
+      failed++
+    }
+  }
+  return { sent, failed }
+}
+
+export async function retryMessage(db: Kysely<Database>, id: number): Promise<boolean> {
+  const r = await db.updateTable('outbox').set({ status: 'queued', attempts: 0, next_attempt_at: new Date().toISOString(), last_error: null })
+    .where('id', '=', id).where('status', '=', 'failed').executeTakeFirst()
+  return !!r.numUpdatedRows
+}
+
+export async function listOutbox(db: Kysely<Database>, limit = 200) {
+  const rows = await db.selectFrom('outbox').select(['id', 'kind', 'to_email', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at', 'next_attempt_at', 'booking_id', 'trip_id'])
+    .orderBy('id', 'desc').limit(limit).execute()
+  return rows.map((r) => ({
+    id: r.id, kind: r.kind, to: r.to_name ? `${r.to_name} <${r.to_email}>` : r.to_email, subject: r.subject, status: r.status, attempts: r.attempts,
+    lastError: r.last_error, createdAt: r.created_at, sentAt: r.sent_at, nextAttemptAt: r.next_attempt_at, bookingId: r.booking_id, tripId: r.trip_id,
+  }))
+}
