@@ -1,16 +1,8 @@
+import type { CatalogueRow } from '#shared/eclipse/types'
 import type { Ref } from 'vue'
 
-export interface EclipseRow {
-  id: string
-  type: 'total' | 'annular' | 'hybrid' | 'partial'
-  greatest: { utc: string; lat: number; lon: number }
-  gamma: number
-  magnitude: number
-  centralDurationSec: number | null
-  pathWidthKm: number | null
-  sunAltitudeDeg: number
-  deltaTSec: number
-}
+/** A catalogue row, as the server sends it. */
+export type EclipseRow = CatalogueRow
 
 export function useEclipses(filters: Ref<{ from?: number; to?: number; type?: string; upcoming?: string }>) {
   return useFetch<{ data: EclipseRow[]; meta: { total: number } }>('/api/eclipses', {

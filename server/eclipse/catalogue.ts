@@ -1,23 +1,9 @@
 import * as Astronomy from 'astronomy-engine'
 import { greatestEclipse } from '../../shared/eclipse/greatest'
-import type { BesselianElements, GlobalEclipseType } from '../../shared/eclipse/types'
+import type { BesselianElements, CatalogueRow } from '../../shared/eclipse/types'
 import { computeElements } from './compute'
 
-/** One catalogue row. Every value is computed from the eclipse's element set. */
-export interface CatalogueRow {
-  /** Date of greatest eclipse (UTC), YYYY-MM-DD. */
-  id: string
-  type: GlobalEclipseType
-  greatest: { utc: string; lat: number; lon: number }
-  gamma: number
-  magnitude: number
-  /** Central duration at greatest eclipse, s; null for non-central eclipses. */
-  centralDurationSec: number | null
-  /** Path width at greatest eclipse, km; null for non-central eclipses. */
-  pathWidthKm: number | null
-  sunAltitudeDeg: number
-  deltaTSec: number
-}
+export type { CatalogueRow }
 
 const r = (v: number, d: number) => Math.round(v * 10 ** d) / 10 ** d
 

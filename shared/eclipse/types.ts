@@ -44,3 +44,19 @@ export interface Site {
   /** Height above the ellipsoid (≈ above sea level), metres. */
   elevationM?: number
 }
+
+/** One catalogue row. Every value is computed from the eclipse's element set. */
+export interface CatalogueRow {
+  /** Date of greatest eclipse (UTC), YYYY-MM-DD. */
+  id: string
+  type: GlobalEclipseType
+  greatest: { utc: string; lat: number; lon: number }
+  gamma: number
+  magnitude: number
+  /** Central duration at greatest eclipse, s; null for non-central eclipses. */
+  centralDurationSec: number | null
+  /** Path width at greatest eclipse, km; null for non-central eclipses. */
+  pathWidthKm: number | null
+  sunAltitudeDeg: number
+  deltaTSec: number
+}
