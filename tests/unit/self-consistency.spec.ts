@@ -91,3 +91,16 @@ describe('self-consistency of the path (Canon elements, 2027-08-02)', () => {
     expect(Math.abs(b.lonDeg - a.lonDeg)).toBeCloseTo(0.00418, 4)
   })
 })
+
+describe('Sun position against an independent library', () => {
+  it('the engine’s Sun altitude and azimuth at maximum agree with suncalc within 0.3°', async () => {
+    // suncalc 2 (npm), a simpler solar model: an independent check of the engine's alt/az.
+    const SunCalc = await import('suncalc')
+    for (const [lat, lon] of [[25.6872, 32.6396], [36.0143, -5.6044], [21.4858, 39.1925]] as const) {
+      const lc = localCircumstances(el, { latDeg: lat, lonDeg: lon }, dT)
+      const p = SunCalc.getPosition(new Date(lc.max!.utcMs), lat, lon)
+      expect(Math.abs(p.altitude - lc.max!.altitudeDeg)).toBeLessThan(0.3)
+      expect(Math.abs(((p.azimuth - lc.max!.azimuthDeg + 540) % 360) - 180)).toBeLessThan(0.5)
+    }
+  })
+})
