@@ -50,14 +50,21 @@ function engine() {
   for (const s of aeSites) sink += Astronomy.SearchLocalSolarEclipse(start, new Astronomy.Observer(s.latDeg, s.lonDeg, s.elevationM ?? 0)).obscuration
   const aeRate = aeSites.length / ((performance.now() - t) / 1000)
 
-  t = performance.now()
-  const fc = eclipsePath(el, { stepSec: 10 })
-  const pathMs = performance.now() - t
+  // Whole path at 10 s steps: one warm-up run, then the median of five.
+  eclipsePath(el, { stepSec: 60 })
+  const runs: number[] = []
+  let fc = eclipsePath(el, { stepSec: 10 })
+  for (let i = 0; i < 5; i++) {
+    t = performance.now()
+    fc = eclipsePath(el, { stepSec: 10 })
+    runs.push(performance.now() - t)
+  }
+  const pathMs = runs.sort((a, b) => a - b)[2]!
   if (!Number.isFinite(sink)) console.log('')
   console.log(`engine local circumstances (contacts, altitudes, P/V): ${Math.round(coreRate)} sites/s over ${sites.length} sites of 2027-08-02`)
   console.log(`engine full report (plus centreline distance, limits, uncertainty): ${Math.round(fullRate)} sites/s`)
   console.log(`astronomy-engine SearchLocalSolarEclipse: ${aeRate.toFixed(1)} sites/s over ${aeSites.length} sites`)
-  console.log(`whole path at 10 s steps: ${pathMs.toFixed(0)} ms (${fc.features.length} features)`)
+  console.log(`whole path at 10 s steps: ${pathMs.toFixed(0)} ms median of 5 after a warm-up (${fc.features.length} features; goal < 100 ms)`)
   console.log(`engine-speedup ${(coreRate / aeRate).toFixed(0)}`)
 }
 

@@ -190,6 +190,12 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
       centreDur.set(p.t, lc.durationSec)
     }
   }
+  // Path width at each whole-step instant, measured once at the centreline and shared by that instant's limit ticks.
+  // The limit points and the track direction come from the lines already traced at the same instants.
+  const widthByT = new Map<string, number>()
+  const limitAt = (segs: typeof north) => new Map(segs.flat().filter((p) => isWholeStep(el, p.t, stepSec, deltaTSec)).map((p) => [utcOf(p.t), p.g] as const))
+  const northAt = limitAt(north)
+  const southAt = limitAt(south)
   const tickLines: Array<['centre' | 'north' | 'south', typeof centre]> = [['centre', centre], ['north', north], ['south', south]]
   for (const [line, segs] of tickLines) {
     for (const seg of segs) {
@@ -204,9 +210,12 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
         }
         if (line === 'centre') {
           props.durationSec = Math.round((centreDur.get(p.t) ?? 0) * 10) / 10
-          const w = widthAt(el, p.t, p.g, dH)
-          if (w !== null) props.pathWidthKm = Math.round(w * 10) / 10
+          const key = props.utc as string
+          const w = widthAt(el, p.t, p.g, dH, northAt.get(key), southAt.get(key))
+          if (w !== null) widthByT.set(props.utc as string, Math.round(w * 10) / 10)
         }
+        const w = widthByT.get(props.utc as string)
+        if (w !== undefined) props.pathWidthKm = w
         features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: pos(p.g) }, properties: props })
       }
     }
@@ -249,7 +258,7 @@ function durationOffsetPoint(el: BesselianElements, t: number, ratio: number, si
     if (!g) return null
     const D = localCircumstances(el, { latDeg: g.latDeg, lonDeg: g.lonDeg }, deltaTSec).durationSec
     const err = D / D0 - ratio
-    if (Math.abs(err) < 2e-4) break
+    if (Math.abs(err) < 1e-3) break // 0.1 % of the duration: finer than the line can be drawn
     const slope = -s / Math.sqrt(Math.max(1e-6, 1 - s * s))
     s = Math.min(0.999, Math.max(0.001, s - err / slope))
   }
@@ -260,10 +269,10 @@ function durationOffsetPoint(el: BesselianElements, t: number, ratio: number, si
  * Path width (km) at time t from the limit points at the same instant, measured
  * perpendicular to the centreline (the limits run parallel to it locally).
  */
-function widthAt(el: BesselianElements, t: number, c: GroundPoint, dH: number): number | null {
+function widthAt(el: BesselianElements, t: number, c: GroundPoint, dH: number, north?: GroundPoint, south?: GroundPoint): number | null {
   const track = centrelineBearing(el, t, dH)
-  const n = offsetPoint(el, t, 1, 'umbra', dH)
-  const s = offsetPoint(el, t, -1, 'umbra', dH)
+  const n = north ?? offsetPoint(el, t, 1, 'umbra', dH)
+  const s = south ?? offsetPoint(el, t, -1, 'umbra', dH)
   if (track === null || !n || !s) return null
   const part = (p: GroundPoint) => {
     const inv = inverse(c.latDeg, c.lonDeg, p.latDeg, p.lonDeg)

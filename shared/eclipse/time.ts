@@ -9,9 +9,15 @@ export function jdOfDate(date: string): number {
   return ms / 86_400_000 + JD_UNIX_EPOCH
 }
 
-/** Julian Day (TDT) of the element set's t0. */
+const t0Cache = new WeakMap<BesselianElements, { date: string; t0: number; jd: number }>()
+
+/** Julian Day (TDT) of the element set's t0 (memoised per set: it is on every time conversion's path). */
 export function jdT0(el: BesselianElements): number {
-  return jdOfDate(el.date) + el.t0Tdt / 24
+  const c = t0Cache.get(el)
+  if (c && c.date === el.date && c.t0 === el.t0Tdt) return c.jd
+  const jd = jdOfDate(el.date) + el.t0Tdt / 24
+  t0Cache.set(el, { date: el.date, t0: el.t0Tdt, jd })
+  return jd
 }
 
 /**

@@ -15,7 +15,7 @@ describe('lapsed holds', () => {
     const trav = await signIn(TRAVELLER)
     const hold = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
     expect(hold.status).toBe(201)
-    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })).body.data.code).toBe('sold_out')
+    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })).body.code).toBe('sold_out')
     const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
     const r = await (await fetch(`${STRIPE_FAKE}/_fake/checkout/sessions/${c.body.url.split('/pay/')[1]}/complete`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ outcome: 'declined' }) })).json()
     expect(r.ok).toBe(false)

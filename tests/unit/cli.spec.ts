@@ -50,6 +50,7 @@ describe('npm run eclipse (command line)', () => {
       expect(t.properties.utc).toMatch(/:[0-5]0:00\.0Z$/)
       expect(['centre', 'north', 'south']).toContain(t.properties.line)
       expect(typeof t.properties.sunAltitudeDeg).toBe('number')
+      expect(t.properties.pathWidthKm).toBeGreaterThan(200) // on the centre and on both limits
     }
     expect(ticks.filter((t: { properties: { line: string } }) => t.properties.line === 'centre').every((t: { properties: { durationSec: number } }) => t.properties.durationSec > 0)).toBe(true)
   })
