@@ -33,7 +33,7 @@ export default defineConfig({
     env: f.env,
   })), {
     command: 'node .output/server/index.mjs',
-    url: `http://localhost:${PORT}/api/eclipses?from=2027&to=2027`,
+    url: `http://localhost:${PORT}/api/health`,
     reuseExistingServer: false,
     timeout: 60_000,
     env: {

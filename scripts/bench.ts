@@ -79,7 +79,7 @@ async function startApp(): Promise<{ base: string; stop: () => void }> {
   })
   const base = `http://127.0.0.1:${port}`
   for (let i = 0; i < 200; i++) {
-    try { if ((await fetch(`${base}/api/eclipses?from=2027&to=2027`)).ok) break } catch { /* starting */ }
+    try { if ((await fetch(`${base}/api/health`)).ok) break } catch { /* starting */ }
     await new Promise((r) => setTimeout(r, 200))
   }
   return { base, stop: () => child.kill('SIGTERM') }

@@ -69,7 +69,7 @@ start('app', process.execPath, ['.output/server/index.mjs'], {
 const deadline = Date.now() + 90_000
 for (;;) {
   try {
-    const r = await fetch(`http://127.0.0.1:${PORT}/api/eclipses?from=2027&to=2027`)
+    const r = await fetch(`http://127.0.0.1:${PORT}/api/health`)
     if (r.ok) break
   } catch { /* not up yet */ }
   if (Date.now() > deadline) { console.error('The app did not start within 90 s.'); stop(1) }

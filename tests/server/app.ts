@@ -2,6 +2,7 @@ import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { setup, url } from '@nuxt/test-utils/e2e'
+import { beforeAll } from 'vitest'
 import { fakeServices } from '../../scripts/fakes.mjs'
 import { TEST_APP_PORT, TEST_FAKE_PORTS } from './global-setup'
 
@@ -29,6 +30,8 @@ export async function useApp(env: Record<string, string> = {}) {
       ...env,
     },
   })
+  // Wait until migrations, the catalogue and the basemap index are ready, so no test meets a warming server.
+  beforeAll(async () => { await fetch(url('/api/health')) }, 120_000)
   return { dbPath: join(dir, 'test.sqlite') }
 }
 
