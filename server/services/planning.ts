@@ -4,8 +4,9 @@ import type { BesselianElements } from '../../shared/eclipse/types'
 import { NO_CLIMATOLOGY, type SiteCloud, type SiteCreateInput, type SiteMetrics, type SiteOut, type SitePatchInput } from '../../shared/schemas/sites'
 import { localTime } from '../../shared/time/local'
 import type { Database, SitesTable, User } from '../database/schema'
-import { localReport, resolveDeltaT } from '../eclipse/report'
+import { localReport } from '../eclipse/report'
 import { audit } from './audit'
+import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
 
 export type SiteRow = Selectable<SitesTable>
@@ -76,16 +77,15 @@ export async function createWorkspace(db: Kysely<Database>, user: User, input: {
   })
 }
 
-/** Everything needed to compute metrics for a workspace's sites. */
-export async function workspaceContext(db: Kysely<Database>, workspaceId: number, cloudFor?: (ws: Selectable<Database['workspaces']>) => Promise<CloudLookup>) {
+/** Everything needed to compute metrics for a workspace's sites, cloud figures included. */
+export async function workspaceContext(db: Kysely<Database>, workspaceId: number) {
   const ws = await getWorkspace(db, workspaceId)
   const { el, deltaTOverride } = await elementsInForce(db, ws.eclipse_id)
-  const lookup = cloudFor ? await cloudFor(ws) : () => NO_CLIMATOLOGY
-  return { ws, el, deltaT: deltaTOverride, dt: resolveDeltaT(el, deltaTOverride), cloud: lookup }
+  return { ws, el, deltaT: deltaTOverride, cloud: await cloudLookupFor(db, ws) }
 }
 
-export async function listSites(db: Kysely<Database>, workspaceId: number, cloudFor?: Parameters<typeof workspaceContext>[2]): Promise<SiteOut[]> {
-  const ctx = await workspaceContext(db, workspaceId, cloudFor)
+export async function listSites(db: Kysely<Database>, workspaceId: number): Promise<SiteOut[]> {
+  const ctx = await workspaceContext(db, workspaceId)
   const rows = await db.selectFrom('sites').selectAll().where('workspace_id', '=', workspaceId).orderBy('id').execute()
   return rows.map((r) => siteOut(r, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, r, ctx.cloud(r))))
 }
@@ -162,8 +162,8 @@ export async function deleteSite(db: Kysely<Database>, id: number): Promise<void
   if (!r.numDeletedRows) throw new NotFoundError('No such site')
 }
 
-export async function siteWithMetrics(db: Kysely<Database>, id: number, cloudFor?: Parameters<typeof workspaceContext>[2]): Promise<SiteOut> {
+export async function siteWithMetrics(db: Kysely<Database>, id: number): Promise<SiteOut> {
   const row = await getSite(db, id)
-  const ctx = await workspaceContext(db, row.workspace_id, cloudFor)
+  const ctx = await workspaceContext(db, row.workspace_id)
   return siteOut(row, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, row, ctx.cloud(row)))
 }

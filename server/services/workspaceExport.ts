@@ -1,7 +1,6 @@
 import type { H3Event } from 'h3'
 import type { Kysely } from 'kysely'
 import type { Database } from '../database/schema'
-import { cloudLookupFor } from './climatology'
 import { eclipsePathFor } from './eclipses'
 import { toCsv, toGeoJson, toGpx, toKml } from './exports'
 import { getWorkspace, listSites } from './planning'
@@ -16,7 +15,7 @@ const TYPES = {
 /** The path and the sites of a workspace as a download in one of four formats. */
 export async function exportWorkspace(event: H3Event, db: Kysely<Database>, id: number, format: keyof typeof TYPES) {
   const ws = await getWorkspace(db, id)
-  const sites = await listSites(db, id, (w) => cloudLookupFor(db, w))
+  const sites = await listSites(db, id)
   const path = await eclipsePathFor(db, ws.eclipse_id, { step: 300 })
   const base = `umbrafield-${ws.eclipse_id}-${ws.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '')}`
   setResponseHeaders(event, {

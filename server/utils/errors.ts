@@ -1,13 +1,25 @@
+import { BookingStateError, SoldOutError } from '../services/bookings'
 import { UnknownEclipseError } from '../services/eclipses'
+import { NotFoundError } from '../services/planning'
+import { TripRuleError } from '../services/trips'
 
-/** Maps service errors to HTTP errors; anything unexpected stays a generic 500 (no stack reaches the client). */
+/** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
+export function httpErrorFor(e: unknown): Error | null {
+  if (e instanceof UnknownEclipseError) return createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
+  if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
+  if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })
+  if (e instanceof SoldOutError) {
+    return createError({ statusCode: 409, statusMessage: 'Sold out', message: e.message, data: { code: e.available === 0 ? 'sold_out' : 'not_enough_seats', available: e.available, waitlist: true } })
+  }
+  if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
+  return null
+}
+
+/** Runs a service call and maps its errors to HTTP: the one place where service errors meet status codes. */
 export async function withServiceErrors<T>(fn: () => Promise<T> | T): Promise<T> {
   try {
     return await fn()
   } catch (e) {
-    if (e instanceof UnknownEclipseError) {
-      throw createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
-    }
-    throw e
+    throw httpErrorFor(e) ?? e
   }
 }

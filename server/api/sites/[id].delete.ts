@@ -4,6 +4,6 @@ import { deleteSite } from '../../services/planning'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
-  await withPlanningErrors(() => deleteSite(useDb(), id))
+  await withServiceErrors(() => deleteSite(useDb(), id))
   return { ok: true }
 })

@@ -4,7 +4,7 @@ import { createTrip } from '../../services/trips'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const body = await readBodyAs(event, TripCreate)
-  const trip = await withBookingErrors(() => createTrip(useDb(), user, body))
+  const trip = await withServiceErrors(() => createTrip(useDb(), user, body))
   setResponseStatus(event, 201)
   return trip
 })

@@ -4,7 +4,7 @@ import { createWorkspace } from '../../services/planning'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const body = await readBodyAs(event, WorkspaceCreate)
-  const ws = await withPlanningErrors(() => createWorkspace(useDb(), user, body))
+  const ws = await withServiceErrors(() => createWorkspace(useDb(), user, body))
   setResponseStatus(event, 201)
   return ws
 })

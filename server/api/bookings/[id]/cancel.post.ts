@@ -5,5 +5,5 @@ import { cancelBooking } from '../../../services/bookings'
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => cancelBooking(useDb(), useRuntimeConfig().stripe.secretKey ? useStripe() : null, user, id, bookingConfig()))
+  return withServiceErrors(() => cancelBooking(useDb(), useRuntimeConfig().stripe.secretKey ? useStripe() : null, user, id, bookingConfig()))
 })

@@ -5,5 +5,5 @@ import { startCheckout } from '../../../services/bookings'
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => startCheckout(useDb(), useStripe(), user, id, bookingConfig()))
+  return withServiceErrors(() => startCheckout(useDb(), useStripe(), user, id, bookingConfig()))
 })

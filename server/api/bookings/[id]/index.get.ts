@@ -4,5 +4,5 @@ import { bookingFor, bookingView } from '../../../services/bookings'
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(async () => bookingView(useDb(), await bookingFor(useDb(), user, id)))
+  return withServiceErrors(async () => bookingView(useDb(), await bookingFor(useDb(), user, id)))
 })

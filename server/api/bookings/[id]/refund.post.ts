@@ -6,5 +6,5 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
   const { amountMinor, reason } = await readBodyAs(event, RefundCreate)
-  return withBookingErrors(() => manualRefund(useDb(), useStripe(), user, id, amountMinor, reason, bookingConfig()))
+  return withServiceErrors(() => manualRefund(useDb(), useStripe(), user, id, amountMinor, reason, bookingConfig()))
 })

@@ -7,6 +7,6 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
   const { offsets } = await readBodyAs(event, CueOffsetsBody)
-  await withBookingErrors(async () => { await assertTimetableAccess(useDb(), user, id); await setCueOffsets(useDb(), user, id, offsets) })
+  await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); await setCueOffsets(useDb(), user, id, offsets) })
   return { ok: true, offsets }
 })

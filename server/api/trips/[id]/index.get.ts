@@ -6,5 +6,5 @@ export default defineEventHandler(async (event) => {
   const session = await getUserSession(event)
   const user = session.user ? await requireUser(event) : null
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(async () => tripDetail(useDb(), await visibleTrip(useDb(), user, id)))
+  return withServiceErrors(async () => tripDetail(useDb(), await visibleTrip(useDb(), user, id)))
 })

@@ -5,5 +5,5 @@ import { itineraryPreview } from '../../../services/itinerary'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => itineraryPreview(useDb(), id, useRuntimeConfig().public.appUrl))
+  return withServiceErrors(() => itineraryPreview(useDb(), id, useRuntimeConfig().public.appUrl))
 })

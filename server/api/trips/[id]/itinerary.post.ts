@@ -9,5 +9,5 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
   await readBodyAs(event, Body)
-  return withBookingErrors(() => sendItinerary(useDb(), user, id, useRuntimeConfig().public.appUrl))
+  return withServiceErrors(() => sendItinerary(useDb(), user, id, useRuntimeConfig().public.appUrl))
 })

@@ -5,5 +5,5 @@ import { participants } from '../../../services/tripAdmin'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => participants(useDb(), user, id))
+  return withServiceErrors(() => participants(useDb(), user, id))
 })

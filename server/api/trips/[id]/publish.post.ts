@@ -4,5 +4,5 @@ import { publishTrip } from '../../../services/trips'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => publishTrip(useDb(), user, id))
+  return withServiceErrors(() => publishTrip(useDb(), user, id))
 })

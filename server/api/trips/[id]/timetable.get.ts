@@ -5,5 +5,5 @@ import { assertTimetableAccess, timetable } from '../../../services/timetable'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
+  return withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
 })

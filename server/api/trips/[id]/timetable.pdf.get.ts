@@ -9,7 +9,7 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
   const { paper } = queryAs(event, Query)
-  const t = await withBookingErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
+  const t = await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
   const pdf = await timetablePdf(t, paper)
   setResponseHeaders(event, { 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="umbrafield-timetable-trip-${id}.pdf"` })
   return pdf

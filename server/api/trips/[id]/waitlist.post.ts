@@ -6,7 +6,7 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
   const { seats } = await readBodyAs(event, BookingCreate)
-  const w = await withBookingErrors(() => joinWaitlist(useDb(), user, id, seats, bookingConfig()))
+  const w = await withServiceErrors(() => joinWaitlist(useDb(), user, id, seats, bookingConfig()))
   setResponseStatus(event, 201)
   return w
 })

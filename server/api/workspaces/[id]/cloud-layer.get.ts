@@ -4,5 +4,5 @@ import { cloudLayer } from '../../../services/cloudLayer'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
-  return withPlanningErrors(async () => (await cloudLayer(useDb(), id)) ?? { none: true })
+  return withServiceErrors(async () => (await cloudLayer(useDb(), id)) ?? { none: true })
 })

@@ -4,5 +4,5 @@ import { exportWorkspace } from '../../../services/workspaceExport'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
-  return withPlanningErrors(() => exportWorkspace(event, useDb(), id, 'gpx'))
+  return withServiceErrors(() => exportWorkspace(event, useDb(), id, 'gpx'))
 })

@@ -7,5 +7,5 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
   const patch = await readBodyAs(event, WorkspacePatch)
-  return withPlanningErrors(() => updateWorkspace(useDb(), user, id, patch))
+  return withServiceErrors(() => updateWorkspace(useDb(), user, id, patch))
 })

@@ -4,5 +4,5 @@ import { tripBookings } from '../../../../services/tripAdmin'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
-  return withBookingErrors(() => tripBookings(useDb(), id))
+  return withServiceErrors(() => tripBookings(useDb(), id))
 })

@@ -24,7 +24,7 @@ export default defineEventHandler(async (event) => {
   const { rows, errors } = validateSiteRows(parsed.data)
   for (const e of parsed.errors) errors.push({ row: (e.row ?? 0) + 2, field: 'row', message: e.message })
   if (errors.length) return reject(errors.sort((a, b) => a.row - b.row))
-  const created = await withPlanningErrors(() => importSites(useDb(), user, id, rows))
+  const created = await withServiceErrors(() => importSites(useDb(), user, id, rows))
   setResponseStatus(event, 201)
   return { created }
 })

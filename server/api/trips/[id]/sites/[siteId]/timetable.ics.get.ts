@@ -7,7 +7,7 @@ const Params = z.object({ id: z.coerce.number().int().positive(), siteId: z.coer
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id, siteId } = paramsAs(event, Params)
-  const t = await withBookingErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
+  const t = await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
   const site = t.sites.find((s) => s.siteId === siteId)
   if (!site) throw createError({ statusCode: 404, statusMessage: 'No such site on this trip' })
   setResponseHeaders(event, { 'Content-Type': 'text/calendar; charset=utf-8', 'Content-Disposition': `attachment; filename="umbrafield-${t.trip.eclipseId}-site-${siteId}.ics"` })
