@@ -1,5 +1,6 @@
 import type { CatalogueRow } from '#shared/eclipse/types'
 import type { Ref } from 'vue'
+import type { TimeBasisOut } from '~~/server/eclipse/report'
 
 /** A catalogue row, as the server sends it. */
 export type EclipseRow = CatalogueRow
@@ -15,6 +16,7 @@ export function useEclipse(id: Ref<string> | string) {
   const idRef = toRef(id)
   return useFetch<EclipseRow & {
     deltaT: { sec: number; sigmaSec: number; basis: string; override: number | null }
+    time: TimeBasisOut
     elements: { source: string; kind: 'computed' | 'published'; date: string; t0Tdt: number }
   }>(() => `/api/eclipses/${idRef.value}`, { key: computed(() => `eclipse:${idRef.value}`) })
 }

@@ -1,4 +1,4 @@
-// npm run --silent bench -- <engine|all>   — speed figures as ratios measured in one run (never in tests).
+// npm run --silent bench -- <engine|elements|sites|climatology|tiles|booking|all>   — speed figures as ratios measured in one run (never in tests).
 import * as Astronomy from 'astronomy-engine'
 import autocannon from 'autocannon'
 import { spawn } from 'node:child_process'
@@ -10,7 +10,8 @@ import { NO_CLIMATOLOGY } from '../shared/schemas/sites'
 import { siteMetrics } from '../server/services/planning'
 import { cloudAt, parseCsvGrid } from '../server/services/climatology'
 import { demoCloudCsv } from '../server/database/seed/demoCloud'
-import { computedElementsFor } from '../server/eclipse/catalogue'
+import { catalogue, computedElementsFor } from '../server/eclipse/catalogue'
+import { computeElements } from '../server/eclipse/compute'
 import { localReport } from '../server/eclipse/report'
 import {
   deltaTHourAngleRad, eclipsePath, greatestT, localCircumstances, offsetPoint, type BesselianElements, type Site,
@@ -69,6 +70,27 @@ function engine() {
 }
 
 /** Starts the built app on a free loopback port with a throwaway demo database. */
+/** Element sets from the full VSOP87 + ELP/MPP02 series: one set, the stored catalogue, and a full recomputation. */
+function elements() {
+  const peaks: number[] = []
+  let e = Astronomy.SearchGlobalSolarEclipse(Astronomy.MakeTime(new Date(Date.UTC(1900, 0, 1))))
+  while (e.peak.date.getUTCFullYear() <= 2100) { peaks.push(e.peak.tt); e = Astronomy.NextGlobalSolarEclipse(e.peak) }
+  const p2027 = peaks.find((tt) => Math.abs(tt - Astronomy.MakeTime(new Date(Date.UTC(2027, 7, 2, 10))).tt) < 1)!
+  computeElements(p2027) // warm-up: loads the series
+  const one: number[] = []
+  for (let i = 0; i < 3; i++) { const t = performance.now(); computeElements(p2027); one.push(performance.now() - t) }
+  one.sort((a, b) => a - b)
+  let t = performance.now()
+  const rows = catalogue().rows.length
+  const loadSec = (performance.now() - t) / 1000
+  t = performance.now()
+  for (const tt of peaks) computeElements(tt)
+  const allSec = (performance.now() - t) / 1000
+  console.log(`elements: one set (2027-08-02) ${one[1]!.toFixed(0)} ms (median of 3, warm)`)
+  console.log(`elements: stored catalogue of ${rows} eclipses loaded and evaluated in ${loadSec.toFixed(2)} s (what start-up pays)`)
+  console.log(`elements: whole catalogue recomputed in ${allSec.toFixed(1)} s on one core (npm run catalogue:build splits it over two)`)
+}
+
 async function startApp(): Promise<{ base: string; stop: () => void }> {
   if (!existsSync('.output/server/index.mjs')) throw new Error('no build: run "npx nuxt build" first')
   const port = 3900 + Math.floor(Math.random() * 90)
@@ -185,7 +207,7 @@ async function booking() {
 }
 
 const what = process.argv[2] ?? 'all'
-const benches: Record<string, () => void | Promise<void>> = { engine, sites, climatology, tiles, booking }
+const benches: Record<string, () => void | Promise<void>> = { engine, elements, sites, climatology, tiles, booking }
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)

@@ -1,14 +1,20 @@
 import * as Astronomy from 'astronomy-engine'
+import { deltaTAt } from '../../shared/eclipse/deltaT'
 import { greatestEclipse } from '../../shared/eclipse/greatest'
+import { jdOfDate, tToUtcMs } from '../../shared/eclipse/time'
+import { timeBasisAt } from '../../shared/eclipse/timeScales'
+import { JD_UNIX_EPOCH } from '../../shared/eclipse/constants'
 import type { BesselianElements, CatalogueRow } from '../../shared/eclipse/types'
-import { computeElements } from './compute'
+import { COMPUTED_SOURCE, computeElements } from './compute'
+import stored from './data/catalogue.json'
 
 export type { CatalogueRow }
 
 const r = (v: number, d: number) => Math.round(v * 10 ** d) / 10 ** d
 
-export function rowFromElements(el: BesselianElements, deltaTSec = el.deltaTSec): CatalogueRow {
-  const g = greatestEclipse(el, deltaTSec)
+/** One catalogue row; `ttMinusClockSec` as in greatestEclipse (TT − UTC for UTC, default ΔT: UT1). */
+export function rowFromElements(el: BesselianElements, deltaTSec = el.deltaTSec, ttMinusClockSec = deltaTSec): CatalogueRow {
+  const g = greatestEclipse(el, deltaTSec, ttMinusClockSec)
   return {
     id: g.utc.slice(0, 10),
     type: g.type,
@@ -22,21 +28,42 @@ export function rowFromElements(el: BesselianElements, deltaTSec = el.deltaTSec)
   }
 }
 
+/** An element set as stored in data/catalogue.json: the fitted polynomials only (ΔT and provenance are added on load). */
+export type StoredSet = Pick<BesselianElements, 'date' | 't0Tdt' | 'x' | 'y' | 'd' | 'mu' | 'l1' | 'l2' | 'tanF1' | 'tanF2'>
+
+const sig = (v: number) => Number(v.toPrecision(11))
+export function toStoredSet(el: BesselianElements): StoredSet {
+  return {
+    date: el.date, t0Tdt: el.t0Tdt,
+    x: el.x.map(sig), y: el.y.map(sig), d: el.d.map(sig), mu: el.mu.map(sig), l1: el.l1.map(sig), l2: el.l2.map(sig),
+    tanF1: sig(el.tanF1), tanF2: sig(el.tanF2),
+  }
+}
+
+/** A stored set made whole: the default ΔT for its t0 from the ΔT model, the computed provenance. */
+export function fromStoredSet(s: StoredSet): BesselianElements {
+  const t0UtcMs = (jdOfDate(s.date) + s.t0Tdt / 24 - JD_UNIX_EPOCH) * 86_400_000 - 69_000
+  return { ...s, deltaTSec: r(deltaTAt(t0UtcMs).deltaTSec, 2), source: COMPUTED_SOURCE, kind: 'computed' }
+}
+
 interface Catalogue { rows: CatalogueRow[]; elements: Map<string, BesselianElements> }
 let cached: Catalogue | undefined
 
-/** Every solar eclipse from 1900 to 2100: dates from astronomy-engine's search, values from computed element sets. */
+/**
+ * Every solar eclipse from 1900 to 2100, from the generated element sets in data/catalogue.json
+ * (scripts/make-catalogue.ts): evaluating 454 stored sets takes well under a second, computing
+ * them from the full lunar series takes minutes.
+ */
 export function catalogue(): Catalogue {
   if (cached) return cached
   const rows: CatalogueRow[] = []
   const elements = new Map<string, BesselianElements>()
-  let e = Astronomy.SearchGlobalSolarEclipse(Astronomy.MakeTime(new Date(Date.UTC(1900, 0, 1))))
-  while (e.peak.date.getUTCFullYear() <= 2100) {
-    const el = computeElements(e.peak.tt)
-    const row = rowFromElements(el)
+  for (const s of (stored as { sets: StoredSet[] }).sets) {
+    const el = fromStoredSet(s)
+    const basis = timeBasisAt(tToUtcMs(el, 0, el.deltaTSec))
+    const row = rowFromElements(el, basis.deltaTSec, basis.ttMinusClockSec)
     rows.push(row)
     elements.set(row.id, el)
-    e = Astronomy.NextGlobalSolarEclipse(e.peak)
   }
   cached = { rows, elements }
   return cached

@@ -1,60 +1,35 @@
-import * as Astronomy from 'astronomy-engine'
 import {
-  AU_KM, EARTH_EQUATORIAL_RADIUS_KM, K_PENUMBRA, K_UMBRA, SPEED_OF_LIGHT_KM_S, SUN_RADIUS_ARCSEC_AT_1AU,
+  AU_KM, EARTH_EQUATORIAL_RADIUS_KM, K_PENUMBRA, K_UMBRA, SUN_RADIUS_ARCSEC_AT_1AU,
 } from '../../shared/eclipse/constants'
 import { deltaTAt } from '../../shared/eclipse/deltaT'
 import { ELEMENT_WINDOW_H } from '../../shared/eclipse/path'
 import type { BesselianElements } from '../../shared/eclipse/types'
+import { apparentMoon, apparentSun, gastDegAtTdt } from './ephemeris'
 
-const ER_PER_AU = AU_KM / EARTH_EQUATORIAL_RADIUS_KM
 /** Solar radius, Earth radii: 959.63″ at 1 au. */
 const SUN_RADIUS_ER = (Math.tan((SUN_RADIUS_ARCSEC_AT_1AU / 3600) * (Math.PI / 180)) * AU_KM) / EARTH_EQUATORIAL_RADIUS_KM
 const J2000_UNIX_MS = Date.UTC(2000, 0, 1, 12)
+const J2000_JD = 2451545.0
 
 type Vec = [number, number, number]
 
-/** astronomy-engine time for a TT instant given in days since J2000 (TT). */
-function ttTime(ttDays: number): Astronomy.AstroTime {
-  return Astronomy.AstroTime.FromTerrestrialTime(ttDays)
-}
-
-/**
- * Geocentric apparent equatorial vectors (true equator and equinox of date, Earth radii)
- * of the Sun and the Moon at a TT instant.
- * Sun: astronomy-engine's GeoVector with aberration (light-time and annual aberration).
- * Moon: astronomy-engine's geometric GeoMoon at the retarded time t − r/c; for a body that moves
- * with the Earth, annual aberration and the barycentric part of light-time cancel to first order.
- */
-export function apparentSunMoon(ttDays: number): { sun: Vec; moon: Vec } {
-  const time = ttTime(ttDays)
-  const rot = Astronomy.Rotation_EQJ_EQD(time)
-  const sunJ = Astronomy.GeoVector(Astronomy.Body.Sun, time, true)
-  const moonNow = Astronomy.GeoMoon(time)
-  const lightDays = (moonNow.Length() * AU_KM) / SPEED_OF_LIGHT_KM_S / 86400
-  const moonJ = Astronomy.GeoMoon(ttTime(ttDays - lightDays))
-  const sun = Astronomy.RotateVector(rot, new Astronomy.Vector(sunJ.x, sunJ.y, sunJ.z, time))
-  const moon = Astronomy.RotateVector(rot, new Astronomy.Vector(moonJ.x, moonJ.y, moonJ.z, time))
-  return {
-    sun: [sun.x * ER_PER_AU, sun.y * ER_PER_AU, sun.z * ER_PER_AU],
-    moon: [moon.x * ER_PER_AU, moon.y * ER_PER_AU, moon.z * ER_PER_AU],
-  }
-}
-
-/**
- * Greenwich apparent sidereal time (degrees) for a UT instant numerically equal to the TT
- * instant: μ in published elements is referred to TDT, and ΔT enters only later.
- */
-function gastDegAtTdt(ttDays: number): number {
-  return Astronomy.SiderealTime(new Astronomy.AstroTime(ttDays)) * 15
-}
+/** Provenance line carried by every computed set. */
+export const COMPUTED_SOURCE = 'Umbrafield, computed from VSOP87 (Sun) and ELP/MPP02-DE405 (Moon) via astronomia (k = 0.2724880 / 0.2722810, R☉ = 959.63″)'
 
 export interface ElementSample {
   t: number; x: number; y: number; dDeg: number; muDeg: number; l1: number; l2: number; tanF1: number; tanF2: number
 }
 
-/** The unfitted elements at one TT instant. Explanatory Supplement (1992) §8.3; Meeus, Elements of Solar Eclipses. */
-export function elementSample(ttDays: number, t: number): ElementSample {
-  const { sun, moon } = apparentSunMoon(ttDays)
+/**
+ * The unfitted elements at one TT instant (days since J2000, TT). Explanatory Supplement (1992)
+ * §8.3; Meeus, Elements of Solar Eclipses. `moonDistanceKm` (optional) is the Earth–Moon distance
+ * near that instant, for the light-time correction.
+ */
+export function elementSample(ttDays: number, t: number, moonDistanceKm?: number): ElementSample & { moonDistanceKm: number } {
+  const jde = J2000_JD + ttDays
+  const sun = apparentSun(jde)
+  const m = apparentMoon(jde, moonDistanceKm)
+  const moon = m.vec
   const g: Vec = [sun[0] - moon[0], sun[1] - moon[1], sun[2] - moon[2]]
   const G = Math.hypot(...g)
   const a = Math.atan2(g[1], g[0])
@@ -71,9 +46,9 @@ export function elementSample(ttDays: number, t: number): ElementSample {
   const tanF2 = Math.tan(Math.asin(sinF2))
   const l1 = z * tanF1 + K_PENUMBRA / Math.cos(Math.asin(sinF1))
   const l2 = z * tanF2 - K_UMBRA / Math.cos(Math.asin(sinF2))
-  let mu = gastDegAtTdt(ttDays) - (a * 180) / Math.PI
+  let mu = gastDegAtTdt(jde) - (a * 180) / Math.PI
   mu = ((mu % 360) + 360) % 360
-  return { t, x, y, dDeg: (d * 180) / Math.PI, muDeg: mu, l1, l2, tanF1, tanF2 }
+  return { t, x, y, dDeg: (d * 180) / Math.PI, muDeg: mu, l1, l2, tanF1, tanF2, moonDistanceKm: m.distanceKm }
 }
 
 /** Least-squares polynomial fit of the given degree (normal equations; small, well-conditioned in t). */
@@ -113,8 +88,11 @@ export function computeElements(greatestTtDays: number, deltaTSec?: number): Bes
   const t0Tdt = (t0Ms - day.getTime()) / 3_600_000
   const t0Days = (t0Ms - J2000_UNIX_MS) / 86_400_000
   const samples: ElementSample[] = []
+  let distanceKm: number | undefined
   for (let t = -ELEMENT_WINDOW_H; t <= ELEMENT_WINDOW_H + 1e-9; t += 1 / 6) {
-    samples.push(elementSample(t0Days + t / 24, t))
+    const s = elementSample(t0Days + t / 24, t, distanceKm)
+    distanceKm = s.moonDistanceKm
+    samples.push(s)
   }
   const ts = samples.map((s) => s.t)
   // Unwrap μ, which passes through 360°.
@@ -140,7 +118,7 @@ export function computeElements(greatestTtDays: number, deltaTSec?: number): Bes
     l2: polyFit(ts, samples.map((s) => s.l2), 2),
     tanF1: mean('tanF1'),
     tanF2: mean('tanF2'),
-    source: 'Umbrafield, computed from astronomy-engine ephemerides (k = 0.2724880 / 0.2722810, R☉ = 959.63″)',
+    source: COMPUTED_SOURCE,
     kind: 'computed',
   }
 }

@@ -1,17 +1,40 @@
-import { deltaTAt } from '../../shared/eclipse/deltaT'
 import { localCircumstances, pathOffset, type LocalContact } from '../../shared/eclipse/local'
 import { eclipsePath, type FeatureCollection } from '../../shared/eclipse/path'
 import { tToUtcMs, jdT0 } from '../../shared/eclipse/time'
 import { contactUncertainty } from '../../shared/eclipse/uncertainty'
+import { timeBasisAt, timeBasisLine, type TimeBasis } from '../../shared/eclipse/timeScales'
 import type { BesselianElements, Site } from '../../shared/eclipse/types'
 
-/** ΔT to use and its one-sigma: an explicit value wins, else the set's own value; sigma from the model for that date. */
-export function resolveDeltaT(el: BesselianElements, override?: number | null): { deltaTSec: number; sigmaSec: number; basis: string } {
+/**
+ * The time basis for an eclipse: the clock offset TT − UTC from the leap-second table, and ΔT from
+ * the model for the set's t0 (observed or predicted), unless an explicit ΔT overrides it. A published
+ * set's own ΔT is the publisher's forecast; it is reported beside ours but not used unless an
+ * organiser sets it as the override.
+ */
+export function resolveTimeBasis(el: BesselianElements, override?: number | null): TimeBasis {
   const when = tToUtcMs(el, 0, el.deltaTSec)
-  const model = deltaTAt(when)
-  if (override !== undefined && override !== null) return { deltaTSec: override, sigmaSec: model.sigmaSec, basis: 'override' }
-  return { deltaTSec: el.deltaTSec, sigmaSec: model.sigmaSec, basis: el.kind === 'published' ? 'published with the element set' : model.basis }
+  if (override !== undefined && override !== null) {
+    return timeBasisAt(when, { deltaTSec: override, basis: 'override', source: 'override set by the organiser or the request' })
+  }
+  return timeBasisAt(when)
 }
+
+/** The time basis as every output states it. */
+export function timeBasisOut(b: TimeBasis, el: BesselianElements) {
+  return {
+    clock: b.clock,
+    ttMinusUtcSec: b.clock === 'UTC' ? b.ttMinusClockSec : null,
+    ut1MinusUtcSec: b.clock === 'UTC' ? b.ut1MinusUtcSec : null,
+    deltaTSec: Math.round(b.deltaTSec * 100) / 100,
+    deltaTSigmaSec: Math.round(b.deltaTSigmaSec * 100) / 100,
+    deltaTBasis: b.deltaTBasis,
+    clockSource: b.clockSource,
+    deltaTSource: b.deltaTSource,
+    publisherDeltaTSec: el.kind === 'published' ? el.deltaTSec : null,
+    line: timeBasisLine(b),
+  }
+}
+export type TimeBasisOut = ReturnType<typeof timeBasisOut>
 
 const r1 = (v: number) => Math.round(v * 10) / 10
 const r2 = (v: number) => Math.round(v * 100) / 100
@@ -54,15 +77,16 @@ export interface LocalReport {
   uncertainty: { method: string; deltaTSigmaSec: number; terms: Record<string, unknown> }
   deltaTSec: number
   deltaTBasis: string
+  time: TimeBasisOut
   elementsSource: string
   elementsKind: string
 }
 
 /** Local circumstances as the CLI and the API return them. */
 export function localReport(eclipseId: string, el: BesselianElements, site: Site, deltaT?: number | null): LocalReport {
-  const dt = resolveDeltaT(el, deltaT)
-  const lc = localCircumstances(el, site, dt.deltaTSec)
-  const unc = contactUncertainty(el, site, lc, dt.deltaTSec, dt.sigmaSec)
+  const dt = resolveTimeBasis(el, deltaT)
+  const lc = localCircumstances(el, site, dt.deltaTSec, dt.ttMinusClockSec)
+  const unc = contactUncertainty(el, site, lc, dt)
   const off = lc.type === 'none' ? null : pathOffset(el, site, dt.deltaTSec)
   const out = (name: 'c1' | 'c2' | 'max' | 'c3' | 'c4', c?: LocalContact): ContactOut | undefined => {
     if (!c) return undefined
@@ -90,17 +114,18 @@ export function localReport(eclipseId: string, el: BesselianElements, site: Site
     halfWidthFraction: off ? Math.round(off.halfWidthFraction * 1e4) / 1e4 : null,
     limitDistanceKm: off && Number.isFinite(off.limitDistanceKm) ? r2(off.limitDistanceKm) : null,
     uncertaintySec: Object.fromEntries(Object.entries(unc.contacts).map(([k, v]) => [k, v!.totalSec])),
-    uncertainty: { method: unc.method, deltaTSigmaSec: r1(dt.sigmaSec), terms: unc.contacts },
-    deltaTSec: dt.deltaTSec,
-    deltaTBasis: dt.basis,
+    uncertainty: { method: unc.method, deltaTSigmaSec: r2(dt.deltaTSigmaSec), terms: unc.contacts },
+    deltaTSec: r2(dt.deltaTSec),
+    deltaTBasis: dt.deltaTBasis,
+    time: timeBasisOut(dt, el),
     elementsSource: el.source,
     elementsKind: el.kind,
   }
 }
 
 export function pathReport(eclipseId: string, el: BesselianElements, opts: { stepSec?: number; deltaT?: number | null; wrap?: 'split' | 'unwrap' }): FeatureCollection {
-  const dt = resolveDeltaT(el, opts.deltaT)
-  const fc = eclipsePath(el, { stepSec: opts.stepSec ?? 60, deltaTSec: dt.deltaTSec, antimeridian: opts.wrap ?? 'split' })
-  fc.properties = { ...fc.properties, eclipseId, deltaTBasis: dt.basis, elementsKind: el.kind, t0JdTdt: jdT0(el) }
+  const dt = resolveTimeBasis(el, opts.deltaT)
+  const fc = eclipsePath(el, { stepSec: opts.stepSec ?? 60, deltaTSec: dt.deltaTSec, ttMinusClockSec: dt.ttMinusClockSec, antimeridian: opts.wrap ?? 'split' })
+  fc.properties = { ...fc.properties, eclipseId, deltaTBasis: dt.deltaTBasis, time: timeBasisOut(dt, el), elementsKind: el.kind, t0JdTdt: jdT0(el) }
   return fc
 }

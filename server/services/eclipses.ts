@@ -3,7 +3,7 @@ import type { BesselianElements } from '../../shared/eclipse/types'
 import { PublishedElements, type PublishedElementsInput } from '../../shared/schemas/elements'
 import type { Database, User } from '../database/schema'
 import { catalogue, computedElementsFor, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
-import { localReport, pathReport, resolveDeltaT } from '../eclipse/report'
+import { localReport, pathReport, resolveTimeBasis, timeBasisOut } from '../eclipse/report'
 import type { Site } from '../../shared/eclipse/types'
 import { audit } from './audit'
 
@@ -49,10 +49,11 @@ function cached<T>(key: string, make: () => T): T {
 
 export async function eclipseDetail(db: Kysely<Database>, id: string) {
   const { el, deltaTOverride } = await elementsInForce(db, id)
-  const dt = resolveDeltaT(el, deltaTOverride)
+  const dt = resolveTimeBasis(el, deltaTOverride)
   return {
-    ...rowFromElements(el, dt.deltaTSec),
-    deltaT: { sec: dt.deltaTSec, sigmaSec: Math.round(dt.sigmaSec * 10) / 10, basis: dt.basis, override: deltaTOverride },
+    ...rowFromElements(el, dt.deltaTSec, dt.ttMinusClockSec),
+    deltaT: { sec: dt.deltaTSec, sigmaSec: Math.round(dt.deltaTSigmaSec * 10) / 10, basis: dt.deltaTBasis, override: deltaTOverride },
+    time: timeBasisOut(dt, el),
     elements: el,
   }
 }

@@ -72,7 +72,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(Date.now(), zone).utcOffset,
       type: r.type, durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
-      contacts, cues, planets, deltaTSec: r.deltaTSec, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
+      contacts, cues, planets, deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
     }
   })
   return {

@@ -38,7 +38,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     let y = doc.y + 8
     const cols = [0, 150, 250, 345, 405, 455]
     doc.font('ws-semi').fontSize(8).fillColor(MUTED)
-    ;['CONTACT', 'LOCAL TIME', 'UT', '±', 'SUN ALT', 'SUN AZ'].forEach((h, i) => doc.text(h, left + cols[i]!, y))
+    ;['CONTACT', 'LOCAL TIME', 'UTC', '±', 'SUN ALT', 'SUN AZ'].forEach((h, i) => doc.text(h, left + cols[i]!, y))
     y += 13
     for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
       const c = s.contacts[k]
@@ -76,7 +76,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     y = doc.y + 4
     for (const c of s.cues) {
       doc.font('ws-semi').fontSize(10).fillColor(c.filters === 'off' ? RED : INK).text(c.local.slice(11), left, y, { width: 60 })
-      doc.font('ws').fontSize(8).fillColor(MUTED).text(`UT ${new Date(Math.round(Date.parse(c.utc) / 1000) * 1000).toISOString().slice(11, 19)}`, left, y + 12, { width: 60 })
+      doc.font('ws').fontSize(8).fillColor(MUTED).text(`UTC ${new Date(Math.round(Date.parse(c.utc) / 1000) * 1000).toISOString().slice(11, 19)}`, left, y + 12, { width: 60 })
       doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(`${c.label}${c.filters !== 'unchanged' ? `  [filters ${c.filters}]` : ''}`), left + 70, y, { width: width - 70 })
       y = Math.max(doc.y, y + 22) + 4
     }
@@ -88,7 +88,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     for (const line of t.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
     doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
     doc.font('ws').fontSize(7.5).fillColor(MUTED)
-      .text(plain(`ΔT ${s.deltaTSec.toFixed(1)} s · elements: ${s.elementsSource} · ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
+      .text(plain(`${s.time.line} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
   }
   doc.end()
   return done

@@ -47,12 +47,13 @@ export function greatestT(el: BesselianElements): number {
   return t
 }
 
-export function greatestEclipse(el: BesselianElements, deltaTSec = el.deltaTSec): GreatestEclipse {
+/** `ttMinusClockSec` as in localCircumstances: TT − UTC for UTC, ΔT (the default) for UT1. */
+export function greatestEclipse(el: BesselianElements, deltaTSec = el.deltaTSec, ttMinusClockSec = deltaTSec): GreatestEclipse {
   const dH = deltaTHourAngleRad(deltaTSec)
   const t = greatestT(el)
   const st = elementsAt(el, t)
   const gamma = Math.sign(st.y || 1) * Math.hypot(st.x, st.y)
-  const utcMs = tToUtcMs(el, t, deltaTSec)
+  const utcMs = tToUtcMs(el, t, ttMinusClockSec)
   const centre = centrePoint(el, t, dH, st)
   let latDeg: number, lonDeg: number, magnitude: number
   let type: GlobalEclipseType

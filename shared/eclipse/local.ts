@@ -12,7 +12,7 @@ export type ContactName = 'c1' | 'c2' | 'max' | 'c3' | 'c4'
 
 /** One instant of the local eclipse. */
 export interface LocalContact {
-  /** UTC instant, ms since the Unix epoch (UT1 taken as UTC). */
+  /** Clock instant, ms since the Unix epoch: UTC when the caller gives TT − UTC, else UT1. */
   utcMs: number
   /** ISO 8601 UTC with tenths of a second. */
   utc: string
@@ -111,11 +111,11 @@ export function obscurationOf(k: number, c: number): number {
   return area / Math.PI
 }
 
-function contactOf(el: BesselianElements, o: Observer, solved: Solved, deltaTSec: number, innerTotal: boolean, withAngles: boolean): LocalContact {
+function contactOf(el: BesselianElements, o: Observer, solved: Solved, ttMinusClockSec: number, innerTotal: boolean, withAngles: boolean): LocalContact {
   const st = elementsAt(el, solved.t)
   const { altitudeDeg, azimuthDeg } = sunAltAz(st, o, solved.s.H)
   const apparent = altitudeDeg + refractionDeg(altitudeDeg)
-  const utcMs = tToUtcMs(el, solved.t, deltaTSec)
+  const utcMs = tToUtcMs(el, solved.t, ttMinusClockSec)
   const c: LocalContact = {
     utcMs, utc: isoTenths(utcMs), t: solved.t,
     altitudeDeg, apparentAltitudeDeg: apparent, azimuthDeg, belowHorizon: apparent < 0,
@@ -136,8 +136,10 @@ function contactOf(el: BesselianElements, o: Observer, solved: Solved, deltaTSec
 /**
  * Local circumstances of a solar eclipse at one site, from a Besselian element set.
  * Meeus, Elements of Solar Eclipses 1951–2200, ch. "Local circumstances".
+ * `deltaTSec` (TT − UT1) turns the Earth; `ttMinusClockSec` turns TT instants into clock times:
+ * TT − UTC for UTC (timeScales.ts), or, by default, ΔT itself for UT1 as published tables use.
  */
-export function localCircumstances(el: BesselianElements, site: Site, deltaTSec = el.deltaTSec): LocalCircumstances {
+export function localCircumstances(el: BesselianElements, site: Site, deltaTSec = el.deltaTSec, ttMinusClockSec = deltaTSec): LocalCircumstances {
   const o = observerOf(site)
   const dH = deltaTHourAngleRad(deltaTSec)
   const mx = solveMax(el, o, dH)
@@ -152,17 +154,17 @@ export function localCircumstances(el: BesselianElements, site: Site, deltaTSec 
   out.type = central ? (L2 < 0 ? 'total' : 'annular') : 'partial'
   out.magnitude = central ? (L1 - L2) / (L1 + L2) : (L1 - m) / (L1 + L2)
   out.obscuration = obscurationOf(out.moonSunRatio, (2 * m) / (L1 + L2))
-  out.max = contactOf(el, o, mx, deltaTSec, false, false)
+  out.max = contactOf(el, o, mx, ttMinusClockSec, false, false)
   const c1 = solveContact(el, o, dH, mx.t, 1, -1)
   const c4 = solveContact(el, o, dH, mx.t, 1, 1)
-  if (c1) out.c1 = contactOf(el, o, c1, deltaTSec, false, true)
-  if (c4) out.c4 = contactOf(el, o, c4, deltaTSec, false, true)
+  if (c1) out.c1 = contactOf(el, o, c1, ttMinusClockSec, false, true)
+  if (c4) out.c4 = contactOf(el, o, c4, ttMinusClockSec, false, true)
   if (central) {
     const c2 = solveContact(el, o, dH, mx.t, 2, -1)
     const c3 = solveContact(el, o, dH, mx.t, 2, 1)
     const total = out.type === 'total'
-    if (c2) out.c2 = contactOf(el, o, c2, deltaTSec, total, true)
-    if (c3) out.c3 = contactOf(el, o, c3, deltaTSec, total, true)
+    if (c2) out.c2 = contactOf(el, o, c2, ttMinusClockSec, total, true)
+    if (c3) out.c3 = contactOf(el, o, c3, ttMinusClockSec, total, true)
     if (c2 && c3) out.durationSec = (c3.t - c2.t) * 3600
   }
   out.visible = [out.c1, out.max, out.c4].some((c) => c && !c.belowHorizon) ||

@@ -41,21 +41,21 @@ export function existenceIntervals(exists: (t: number) => boolean, from = -ELEME
 }
 
 /** t values inside [a, b] at whole multiples of stepSec of UTC, plus both ends. */
-function sampleTimes(el: BesselianElements, a: number, b: number, stepSec: number, deltaTSec: number): number[] {
-  const ua = tToUtcMs(el, a, deltaTSec)
-  const ub = tToUtcMs(el, b, deltaTSec)
+function sampleTimes(el: BesselianElements, a: number, b: number, stepSec: number, ttMinusClockSec: number): number[] {
+  const ua = tToUtcMs(el, a, ttMinusClockSec)
+  const ub = tToUtcMs(el, b, ttMinusClockSec)
   const stepMs = stepSec * 1000
   const ts = [a]
   for (let u = Math.ceil(ua / stepMs) * stepMs; u < ub; u += stepMs) {
-    const t = utcMsToT(el, u, deltaTSec)
+    const t = utcMsToT(el, u, ttMinusClockSec)
     if (t > a + 1e-9) ts.push(t)
   }
   ts.push(b)
   return ts
 }
 
-function isWholeStep(el: BesselianElements, t: number, stepSec: number, deltaTSec: number): boolean {
-  const u = tToUtcMs(el, t, deltaTSec)
+function isWholeStep(el: BesselianElements, t: number, stepSec: number, ttMinusClockSec: number): boolean {
+  const u = tToUtcMs(el, t, ttMinusClockSec)
   return Math.abs(u / (stepSec * 1000) - Math.round(u / (stepSec * 1000))) < 1e-6
 }
 
@@ -113,6 +113,8 @@ export interface PathOptions {
   stepSec?: number
   /** ΔT in seconds (default: the set's own). */
   deltaTSec?: number
+  /** TT minus the clock, seconds: TT − UTC for UTC ticks (timeScales.ts); default ΔT, i.e. UT1. */
+  ttMinusClockSec?: number
   /** Fractions of the centreline duration for the equal-duration lines. */
   durationFractions?: number[]
   /** 'split' (RFC 7946, default) or 'unwrap' (continuous longitudes, for map drawing). */
@@ -129,15 +131,16 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
   const deltaTSec = opts.deltaTSec ?? el.deltaTSec
   const wrap = opts.antimeridian ?? 'split'
   const fractions = opts.durationFractions ?? [0.25, 0.5, 0.75]
+  const clock = opts.ttMinusClockSec ?? deltaTSec
   const dH = deltaTHourAngleRad(deltaTSec)
   const features: Feature[] = []
-  const utcOf = (t: number) => isoTenths(tToUtcMs(el, t, deltaTSec))
+  const utcOf = (t: number) => isoTenths(tToUtcMs(el, t, clock))
 
   const traceLine = (pointAt: (t: number) => GroundPoint | null) => {
     const intervals = existenceIntervals((t) => pointAt(t) !== null)
     return intervals.map(([a, b]) => {
       const pts: Array<{ t: number; g: GroundPoint }> = []
-      for (const t of sampleTimes(el, a, b, stepSec, deltaTSec)) {
+      for (const t of sampleTimes(el, a, b, stepSec, clock)) {
         const g = pointAt(t)
         if (g) pts.push({ t, g })
       }
@@ -193,14 +196,14 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
   // Path width at each whole-step instant, measured once at the centreline and shared by that instant's limit ticks.
   // The limit points and the track direction come from the lines already traced at the same instants.
   const widthByT = new Map<string, number>()
-  const limitAt = (segs: typeof north) => new Map(segs.flat().filter((p) => isWholeStep(el, p.t, stepSec, deltaTSec)).map((p) => [utcOf(p.t), p.g] as const))
+  const limitAt = (segs: typeof north) => new Map(segs.flat().filter((p) => isWholeStep(el, p.t, stepSec, clock)).map((p) => [utcOf(p.t), p.g] as const))
   const northAt = limitAt(north)
   const southAt = limitAt(south)
   const tickLines: Array<['centre' | 'north' | 'south', typeof centre]> = [['centre', centre], ['north', north], ['south', south]]
   for (const [line, segs] of tickLines) {
     for (const seg of segs) {
       for (const p of seg) {
-        if (!isWholeStep(el, p.t, stepSec, deltaTSec)) continue
+        if (!isWholeStep(el, p.t, stepSec, clock)) continue
         const st = elementsAt(el, p.t)
         const o = observerOf({ latDeg: p.g.latDeg, lonDeg: p.g.lonDeg })
         const H = st.mu + o.lonRad - dH
@@ -223,7 +226,7 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
 
   // Equal-duration lines are smooth: trace them on a whole-minute grid (or the tick step, if coarser).
   const durStepSec = Math.max(60, stepSec)
-  const durTimes = centre.map((seg) => seg.filter((p, i) => i === 0 || i === seg.length - 1 || isWholeStep(el, p.t, durStepSec, deltaTSec)))
+  const durTimes = centre.map((seg) => seg.filter((p, i) => i === 0 || i === seg.length - 1 || isWholeStep(el, p.t, durStepSec, clock)))
   for (const r of fractions) {
     for (const side of [1, -1] as const) {
       const lines: Position[][] = []
@@ -244,7 +247,7 @@ export function eclipsePath(el: BesselianElements, opts: PathOptions = {}): Feat
   return {
     type: 'FeatureCollection',
     features,
-    properties: { elementsSource: el.source, deltaTSec, stepSec },
+    properties: { elementsSource: el.source, deltaTSec, ttMinusClockSec: clock, stepSec },
   }
 }
 
@@ -287,7 +290,7 @@ function widthAt(el: BesselianElements, t: number, c: GroundPoint, dH: number, n
  * The region is the shadow circle on the fundamental plane cut by the Earth's disc.
  */
 export function shadowOutline(el: BesselianElements, t: number, cone: 'umbra' | 'penumbra', deltaTSec = el.deltaTSec,
-  points = 72): Feature | null {
+  points = 72, ttMinusClockSec = deltaTSec): Feature | null {
   const st = elementsAt(el, t)
   const dH = deltaTHourAngleRad(deltaTSec)
   const tanF = cone === 'umbra' ? el.tanF2 : el.tanF1
@@ -332,6 +335,6 @@ export function shadowOutline(el: BesselianElements, t: number, cone: 'umbra' | 
   return {
     type: 'Feature',
     geometry: { type: 'Polygon', coordinates: [closed] },
-    properties: { kind: cone, utc: isoTenths(tToUtcMs(el, t, deltaTSec)) },
+    properties: { kind: cone, utc: isoTenths(tToUtcMs(el, t, ttMinusClockSec)) },
   }
 }

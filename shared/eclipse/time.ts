@@ -21,16 +21,16 @@ export function jdT0(el: BesselianElements): number {
 }
 
 /**
- * UTC instant (ms since the Unix epoch) of t hours after t0, for a given ΔT (s).
- * UT1 is used for UTC; they differ by less than 0.9 s (see uncertainty model).
+ * Clock instant (ms since the Unix epoch) of t hours after t0 (TT), given TT minus the clock in
+ * seconds: 32.184 + (TAI − UTC) for UTC (see timeScales.ts), or ΔT for UT1.
  */
-export function tToUtcMs(el: BesselianElements, tHours: number, deltaTSec: number): number {
-  return (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000 + tHours * 3_600_000 - deltaTSec * 1000
+export function tToUtcMs(el: BesselianElements, tHours: number, ttMinusClockSec: number): number {
+  return (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000 + tHours * 3_600_000 - ttMinusClockSec * 1000
 }
 
-/** Inverse of {@link tToUtcMs}: hours after t0 (TDT) of a UTC instant. */
-export function utcMsToT(el: BesselianElements, utcMs: number, deltaTSec: number): number {
-  return (utcMs + deltaTSec * 1000 - (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000) / 3_600_000
+/** Inverse of {@link tToUtcMs}: hours after t0 (TT) of a clock instant. */
+export function utcMsToT(el: BesselianElements, utcMs: number, ttMinusClockSec: number): number {
+  return (utcMs + ttMinusClockSec * 1000 - (jdT0(el) - JD_UNIX_EPOCH) * 86_400_000) / 3_600_000
 }
 
 /** ISO 8601 UTC with tenths of a second, e.g. 2024-04-08T19:16:17.2Z. */

@@ -7,7 +7,7 @@ import { api, GUIDE, ORGANISER, signIn, useApp } from './app'
 await useApp()
 
 // Source for the published set: Five Millennium Canon (Espenak & Meeus, NASA/TP-2006-214141).
-const canon = parseCanonCsv(readFileSync(resolve(__dirname, '../../../shared/reference/canon-besselian-1900-2100.csv'), 'utf8'))
+const canon = parseCanonCsv(readFileSync(resolve(__dirname, '../fixtures/reference/canon-besselian-1900-2100.csv'), 'utf8'))
 const canon2027 = canon.find((s) => s.date === '2027-08-02')!
 const { kind: _k, ...published2027 } = { ...canon2027, source: 'Five Millennium Canon, Espenak & Meeus (NASA/TP-2006-214141)' }
 
@@ -29,7 +29,7 @@ describe('eclipse catalogue and engine over HTTP', () => {
     expect(unknown.body.message).toMatch(/No solar eclipse/)
   })
 
-  it('local circumstances state their ΔT and element source', async () => {
+  it('local circumstances state their time basis, ΔT and element source', async () => {
     const r = await api('/api/eclipses/2027-08-02/local?lat=25.6872&lon=32.6396') // Luxor
     expect(r.status).toBe(200)
     expect(r.body.type).toBe('total')
@@ -37,7 +37,14 @@ describe('eclipse catalogue and engine over HTTP', () => {
     expect(r.body.elementsKind).toBe('computed')
     expect(typeof r.body.deltaTSec).toBe('number')
     expect(r.body.c2.utc).toMatch(/^2027-08-02T\d\d:\d\d:\d\d\.\dZ$/)
-    expect(r.body.uncertaintySec.c2).toBeGreaterThan(2)
+    // C2 carries at least the ±2 s of the lunar limb profile.
+    expect(r.body.uncertaintySec.c2).toBeGreaterThanOrEqual(2)
+    // Clock times are UTC: TT − UTC = 32.184 + 37 s (IERS Bulletin C); ΔT is the model's prediction.
+    expect(r.body.time.clock).toBe('UTC')
+    expect(r.body.time.ttMinusUtcSec).toBeCloseTo(69.184, 6)
+    expect(Math.abs(r.body.time.deltaTSec - 69.2)).toBeLessThanOrEqual(1)
+    expect(r.body.time.ut1MinusUtcSec).toBeCloseTo(69.184 - r.body.time.deltaTSec, 1)
+    expect(r.body.time.line).toMatch(/Times are UTC\. TT − UTC = 69\.184 s/)
   })
 
   it('a published set wins, and with the publisher\'s ΔT reproduces the Canon\'s greatest eclipse', async () => {
@@ -51,11 +58,22 @@ describe('eclipse catalogue and engine over HTTP', () => {
     expect(ok.status).toBe(200)
     const detail = await api('/api/eclipses/2027-08-02')
     expect(detail.body.elements.kind).toBe('published')
-    // Canon: greatest eclipse 10:06:34 UT with ΔT 76.0 s, 25.5° N 33.2° E, 6m23s, 257.7 km
-    expect(detail.body.deltaT.sec).toBe(76)
-    expect(detail.body.greatest.utc.slice(11, 19)).toBe('10:06:34')
-    expect(Math.abs(detail.body.centralDurationSec - 383)).toBeLessThanOrEqual(1)
-    expect(Math.abs(detail.body.pathWidthKm - 257.7)).toBeLessThan(1)
+    // The publisher's ΔT is reported; the default stays the model's, so clock times stay right.
+    expect(detail.body.time.publisherDeltaTSec).toBe(76)
+    expect(detail.body.deltaT.basis).not.toBe('override')
+    // With the publisher's ΔT as the override the Canon's figures come back. Canon: greatest eclipse
+    // 10:07:50 TD (10:06:34 UT with ΔT 76.0 s), 25.5° N 33.2° E, 6m23s, 257.7 km. In UTC that
+    // instant is 10:07:50 − 69.184 s (TT − UTC), whatever ΔT is.
+    await api('/api/eclipses/2027-08-02/settings', { method: 'PATCH', body: { deltaTSec: 76 }, cookie: org })
+    const asPublished = await api('/api/eclipses/2027-08-02')
+    expect(asPublished.body.deltaT.sec).toBe(76)
+    const wantUtcMs = Date.parse('2027-08-02T10:07:50Z') - 69_184
+    expect(Math.abs(Date.parse(asPublished.body.greatest.utc) - wantUtcMs)).toBeLessThanOrEqual(1000)
+    expect(Math.abs(asPublished.body.greatest.lat - 25.5)).toBeLessThanOrEqual(0.05)
+    expect(Math.abs(asPublished.body.greatest.lon - 33.2)).toBeLessThanOrEqual(0.05)
+    expect(Math.abs(asPublished.body.centralDurationSec - 383)).toBeLessThanOrEqual(1)
+    expect(Math.abs(asPublished.body.pathWidthKm - 257.7)).toBeLessThan(1)
+    await api('/api/eclipses/2027-08-02/settings', { method: 'PATCH', body: { deltaTSec: null }, cookie: org })
     const local = await api('/api/eclipses/2027-08-02/local?lat=25.5&lon=33.2')
     expect(local.body.elementsKind).toBe('published')
     expect(local.body.elementsSource).toMatch(/Canon/)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { deltaTForYear, direct, inverse, isoTenths, jdOfDate, obscurationOf, refractionDeg } from '../../shared/eclipse'
+import { direct, inverse, isoTenths, jdOfDate, obscurationOf, refractionDeg } from '../../shared/eclipse'
 import { clockDirection } from '../../server/eclipse/report'
 
 describe('geodesy (Vincenty on WGS 84)', () => {
@@ -33,19 +33,6 @@ describe('obscuration', () => {
       if ((x - c) ** 2 + y * y <= k * k) hit++
     }
     expect(obscurationOf(k, c)).toBeCloseTo(hit / n, 2)
-  })
-})
-
-describe('ΔT model', () => {
-  it('uses observed values where they exist (IERS/USNO, from memory)', () => {
-    expect(deltaTForYear(2020).deltaTSec).toBeCloseTo(69.36, 2)
-    expect(deltaTForYear(2020).basis).toBe('observed')
-  })
-  it('is continuous at the end of the observations and grows its uncertainty', () => {
-    expect(Math.abs(deltaTForYear(2025.001).deltaTSec - deltaTForYear(2025).deltaTSec)).toBeLessThan(0.01)
-    expect(deltaTForYear(2027.6).sigmaSec).toBeGreaterThan(1)
-    expect(deltaTForYear(2100).sigmaSec).toBeGreaterThan(deltaTForYear(2050).sigmaSec)
-    expect(deltaTForYear(2100).deltaTSec).toBeGreaterThan(deltaTForYear(2050).deltaTSec)
   })
 })
 

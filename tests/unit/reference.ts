@@ -3,8 +3,8 @@ import { resolve } from 'node:path'
 import { parseCanonCsv } from '../../server/eclipse/canonCsv'
 import type { BesselianElements } from '../../shared/eclipse/types'
 
-/** ../shared/reference, beside the repository (CI has it there too). */
-export const REFERENCE_DIR = resolve(__dirname, '../../../shared/reference')
+/** Published reference data copied into the repository (see its README for the sources). */
+export const REFERENCE_DIR = resolve(__dirname, '../fixtures/reference')
 
 let sets: BesselianElements[] | undefined
 /** Besselian elements from the Five Millennium Canon (Espenak & Meeus, NASA/TP-2006-214141), 1900–2100. */
