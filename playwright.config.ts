@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { defineConfig } from '@playwright/test'
 import { fakeServices } from './scripts/fakes.mjs'
+import { E2E_DATE } from './e2e/clock'
 
 const PORT = Number(process.env.E2E_PORT ?? 3210)
 const dataDir = mkdtempSync(join(tmpdir(), 'umbrafield-e2e-'))
@@ -16,6 +17,7 @@ export default defineConfig({
   testDir: 'e2e',
   timeout: 60_000,
   fullyParallel: false,
+  forbidOnly: !!process.env.CI,
   workers: 1,
   reporter: [['list']],
   use: {
@@ -42,6 +44,8 @@ export default defineConfig({
       NUXT_SEED: 'demo',
       NUXT_SESSION_PASSWORD: 'e2e-session-password-that-is-long-enough-0123456789',
       NUXT_PUBLIC_APP_URL: `http://localhost:${PORT}`,
+      // Date-dependent tests (the refund tier) run on a fixed date; the browser clock is fixed per test.
+      UMBRAFIELD_FIXED_DATE: E2E_DATE,
       ...Object.assign({}, ...fakes.map((f) => f.appEnv)),
     },
   }],

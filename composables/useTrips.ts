@@ -1,4 +1,8 @@
 import type { Ref } from 'vue'
+import type { tripDetail } from '~~/server/services/trips'
+
+/** The trip page's eclipse block, as the server builds it. */
+export type TripEclipse = Awaited<ReturnType<typeof tripDetail>>['eclipse']
 
 export interface TripView {
   id: number; title: string; description: string; status: 'draft' | 'published'; eclipseId: string; workspaceId: number
@@ -6,8 +10,7 @@ export interface TripView {
   balanceDueDate: string; cancellationTiers: Array<{ until: string; refundPct: number }>; minGroupSize: number
   meetingPoint: { name: string; lat: number; lon: number; timeUtc: string; local: string; utcOffset: string; zone: string }
   site: { id: number; name: string; lat: number; lon: number; elevationM: number }
-  eclipse?: { type: string; durationSec: number; magnitude: number; zone: string; deltaTSec: number; elementsSource: string
-    contacts: Array<{ name: string; utc: string; local: string; utcOffset: string; altitudeDeg: number; uncertaintySec: number }> }
+  eclipse?: TripEclipse
 }
 export interface BookingView {
   id: number; tripId: number; trip: { id: number; title: string; eclipseId: string; startDate: string; balanceDueDate: string }

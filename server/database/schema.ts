@@ -141,6 +141,9 @@ export interface TripsTable {
   status: Auto<'draft' | 'published'>
   /** JSON cue offsets for the guide's timetable, or null for the defaults. */
   cue_offsets: ColumnType<string | null, string | null | undefined, string | null>
+  /** Margins of the filters-off window: σ multiples and extra seconds before C3 (never below 2 and 5). */
+  filter_margin_sigmas: ColumnType<number, number | undefined, number>
+  filter_margin_end_sec: ColumnType<number, number | undefined, number>
   created_by: number | null
   created_at: Created
 }

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto'
 import type { Kysely, Selectable, Transaction } from 'kysely'
 import type Stripe from 'stripe'
 import { refundPctOn } from '../../shared/schemas/trips'
+import { businessDate } from './clock'
 import type { BookingsTable, Database, User } from '../database/schema'
 import { audit } from './audit'
 import { mailBookingConfirmed, mailBookingHeld, mailReceipt, mailRefund, mailWaitlistOffer } from './bookingMail'
@@ -107,7 +108,7 @@ export async function bookingView(db: Db, b: BookingRow) {
     seats: b.seats, status: b.status, holdExpiresAt: b.status === 'held' ? b.hold_expires_at : null,
     priceMinor: b.price_minor, depositMinor: b.deposit_minor, paidMinor: b.paid_minor, refundedMinor: b.refunded_minor,
     dueMinor: dueOf(b), balanceMinor: Math.max(0, b.price_minor - b.paid_minor), currency: b.currency,
-    refundPctToday: refundPctOn(JSON.parse(trip.cancellation_tiers), iso().slice(0, 10)),
+    refundPctToday: refundPctOn(JSON.parse(trip.cancellation_tiers), businessDate()),
     receipts: payments.filter((p) => p.status === 'succeeded').map((p) => ({ id: p.id, kind: p.kind, amountMinor: p.amount_minor, currency: p.currency, paidAt: p.completed_at, reference: p.payment_intent_id, demo: !!p.demo })),
     payments: payments.map((p) => ({ id: p.id, kind: p.kind, amountMinor: p.amount_minor, status: p.status, createdAt: p.created_at })),
     refunds: refunds.map((r) => ({ id: r.id, amountMinor: r.amount_minor, status: r.status, reason: r.reason, createdAt: r.created_at, reference: r.stripe_refund_id })),
@@ -270,7 +271,7 @@ export async function cancelBooking(db: Kysely<Database>, stripe: Stripe | null,
   const b = await bookingFor(db, user, bookingId)
   if (b.status !== 'held' && b.status !== 'confirmed') throw new BookingStateError(`This booking is already ${b.status}`)
   const trip = await getTripRow(db, b.trip_id)
-  const pct = b.status === 'confirmed' ? refundPctOn(tiersOf(trip), iso().slice(0, 10)) : 0
+  const pct = b.status === 'confirmed' ? refundPctOn(tiersOf(trip), businessDate()) : 0
   const refundMinor = Math.round(((b.paid_minor - b.refunded_minor) * pct) / 100)
   await db.transaction().execute(async (trx) => {
     const changed = await trx.updateTable('bookings').set({ status: 'cancelled', cancel_reason: `cancelled by ${user.id === b.user_id ? 'the traveller' : 'an organiser'}`, updated_at: iso() })

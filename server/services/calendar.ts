@@ -1,31 +1,40 @@
 import { createEvents, type EventAttributes } from 'ics'
+import { phaseWords, safetyParagraph, type LocalKind } from '../../shared/safety/text'
 
 interface ContactLike { utc: string }
 interface SiteLike {
   siteId: number; name: string; lat: number; lon: number; zone: string
+  kind: LocalKind
   contacts: Partial<Record<'c1' | 'c2' | 'max' | 'c3' | 'c4', ContactLike | undefined>>
-  cues?: Array<{ key: string; utc: string; label: string }>
+  cues?: Array<{ key: string; utc: string; label: string; filters: 'on' | 'off' }>
+  /** The time-basis line (TT − UTC, UT1 − UTC, ΔT) that every output states. */
+  time?: { line: string }
 }
-const NAMES: Record<string, string> = { c1: 'C1 — partial eclipse begins', c2: 'C2 — central phase begins', max: 'Maximum eclipse', c3: 'C3 — central phase ends', c4: 'C4 — partial eclipse ends' }
-const SAFETY = 'Eye safety: ISO 12312-2 viewers for every partial phase; filters on the front of any optics; an annular or partial phase is never safe to the naked eye; follow local rules.'
 
-/** RFC 5545 events (times in UTC, so every calendar shows them in its own zone correctly). */
+/**
+ * RFC 5545 events (times in UTC, so every calendar shows them in its own zone correctly).
+ * Every event carries the safety text and the time basis; contact names follow the local kind
+ * of eclipse, so an annular site never reads "totality".
+ */
 export function contactEvents(trip: { id: number; title: string; eclipseId: string }, site: SiteLike, withCues: boolean): EventAttributes[] {
+  const words = phaseWords(site.kind)
+  const footer = `${safetyParagraph(site.kind)}${site.time ? `\n${site.time.line}` : ''}`
   const events: EventAttributes[] = []
   for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
     const c = site.contacts[k]
     if (!c) continue
     events.push({
-      uid: `umbrafield-trip${trip.id}-site${site.siteId}-${k}@umbrafield`, title: `${NAMES[k]} · ${site.name}`,
+      uid: `umbrafield-trip${trip.id}-site${site.siteId}-${k}@umbrafield`, title: `${words.contact[k]} · ${site.name}`,
       start: Math.round(Date.parse(c.utc) / 1000) * 1000, startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 },
-      location: site.name, geo: { lat: site.lat, lon: site.lon }, description: `${trip.title}. Local time zone ${site.zone}. ${SAFETY}`,
+      location: site.name, geo: { lat: site.lat, lon: site.lon }, description: `${trip.title}. ${words.eclipseName} of ${trip.eclipseId}. Local time zone ${site.zone}.\n${footer}`,
     })
   }
   if (withCues) {
     for (const cue of site.cues ?? []) {
       events.push({
-        uid: `umbrafield-trip${trip.id}-site${site.siteId}-cue-${cue.key}@umbrafield`, title: `Cue: ${cue.label}`,
+        uid: `umbrafield-trip${trip.id}-site${site.siteId}-cue-${cue.key}@umbrafield`, title: `Cue: ${cue.label} [filters ${cue.filters}]`,
         start: Math.round(Date.parse(cue.utc) / 1000) * 1000, startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 }, location: site.name,
+        description: `${trip.title}. Cue at ${site.name}: ${cue.label}. Filters ${cue.filters}.\n${footer}`,
       })
     }
   }

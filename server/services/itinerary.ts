@@ -11,7 +11,6 @@ import { zoneAt } from './planning'
 import { timetable } from './timetable'
 import { getTripRow } from './trips'
 
-const LABELS: Record<string, string> = { c1: 'C1 — partial phase begins', c2: 'C2 — totality begins', max: 'Maximum', c3: 'C3 — totality ends', c4: 'C4 — partial phase ends' }
 
 /** One itinerary e-mail per confirmed participant, with an ICS of the meeting and the contacts. */
 export async function itineraryMails(db: Kysely<Database>, tripId: number, appUrl: string): Promise<OutgoingMail[]> {
@@ -35,8 +34,9 @@ export async function itineraryMails(db: Kysely<Database>, tripId: number, appUr
       bookingUrl: `${appUrl}/bookings/${b.id}`,
       meeting: { name: trip.meeting_name, local: meet.local, utcOffset: meet.utcOffset, zone: meetZone },
       site: { name: site.name, lat: site.lat, lon: site.lon, mapUrl: `${appUrl}/trips/${trip.id}`, zone: site.zone },
-      contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: LABELS[k]!, local: site.contacts[k]!.local.slice(11), utc: site.contacts[k]!.utc.slice(11, 19) })),
-      durationSec: site.durationSec, bring: T.WHAT_TO_BRING,
+      contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: site.words.contact[k], local: site.contacts[k]!.local.slice(11), utc: site.contacts[k]!.utc.slice(11, 19) })),
+      kind: site.kind, centralName: site.words.central ? site.words.central[0]!.toUpperCase() + site.words.central.slice(1) : null,
+      durationSec: site.durationSec, timeLine: site.time.line, bring: T.WHAT_TO_BRING,
       organiser: organiser ?? { name: 'Your trip organiser', email: 'trips@umbrafield.test' },
     })
     return { kind: 'itinerary', to: { email: b.uemail, name: b.uname }, bookingId: b.id, tripId, attachments: [{ filename: 'eclipse-itinerary.ics', content: ics, contentType: 'text/calendar; charset=utf-8; method=PUBLISH' }], ...mail }

@@ -1,5 +1,5 @@
 import { formatMoney } from '../../shared/schemas/trips'
-import { SAFETY_LINES } from '../../shared/schemas/cues'
+import { safetyLines, type LocalKind } from '../../shared/safety/text'
 
 export interface Mail { subject: string; html: string; text: string }
 
@@ -19,16 +19,17 @@ function frame(title: string, bodyHtml: string, bodyText: string, footer = 'Sent
 
 const p = (s: string) => `<p style="margin:0 0 12px">${s}</p>`
 const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
-const safetyHtml = () => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${SAFETY_LINES.map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
-const safetyText = () => `EYE SAFETY\n${SAFETY_LINES.map((l) => `- ${l}`).join('\n')}`
+/** The one safety text (shared/safety/text.ts), for the kind of eclipse at the trip's site when known. */
+const safetyHtml = (kind?: LocalKind) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
+const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l) => `- ${l}`).join('\n')}`
 
 export interface BookingMailData { name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string }
 
 export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
   const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
   return frame(`Seats held: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.'),
-    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.`)
+    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(),
+    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText()}`)
 }
 
 export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
@@ -65,7 +66,13 @@ export interface ItineraryData extends BookingMailData {
   meeting: { name: string; local: string; utcOffset: string; zone: string }
   site: { name: string; lat: number; lon: number; mapUrl: string; zone: string }
   contacts: Array<{ label: string; local: string; utc: string }>
+  /** What is seen at the site: it sets the phase words and the safety text. */
+  kind: LocalKind
+  /** "Totality", "Annularity", or null for a partial site. */
+  centralName: string | null
   durationSec: number
+  /** The time basis (TT − UTC, UT1 − UTC, ΔT) in one line. */
+  timeLine: string
   bring: string[]
   organiser: { name: string; email: string }
 }
@@ -74,16 +81,16 @@ export function itinerary(d: ItineraryData): Mail {
   const rows = d.contacts.map((c) => `<tr><td style="padding:4px 8px 4px 0">${esc(c.label)}</td><td style="padding:4px 8px;font-weight:700">${esc(c.local)}</td><td style="padding:4px 0;color:#62579b">${esc(c.utc)} UTC</td></tr>`).join('')
   const html = p(`Hello ${esc(d.name)},`) + p(`Here is your itinerary for <strong>${esc(d.tripTitle)}</strong> (${d.seats} seat${d.seats > 1 ? 's' : ''}). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`)
     + `<h2 style="font-size:16px;margin:16px 0 6px">Meeting point</h2>` + p(`${esc(d.meeting.name)} — <strong>${esc(d.meeting.local)}</strong> local time (UTC${esc(d.meeting.utcOffset)}, ${esc(d.meeting.zone)}).`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. Central phase: ${d.durationSec.toFixed(0)} s.`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>`
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. ${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s.` : 'A partial eclipse here: filters stay on throughout.'}`)
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
     + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
-    + safetyHtml() + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
-  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\nCentral phase: ${d.durationSec.toFixed(0)} s\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText()}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
+    + safetyHtml(d.kind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
+  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.kind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
   return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
 }
 
 export const WHAT_TO_BRING = [
-  'ISO 12312-2 eclipse glasses (we hand out spares, but bring your own pair)',
+  'Eclipse glasses or a hand-held viewer meeting ISO 12312-2 (we hand out spares, but bring your own pair)',
   'Solar filters for the front of any camera, binoculars or telescope',
   'Sun hat, sunscreen and at least two litres of water',
   'A red torch for the early start',

@@ -1,20 +1,24 @@
 import * as Astronomy from 'astronomy-engine'
 import type { Kysely } from 'kysely'
-import { DEFAULT_CUES, SAFETY_LINES, type CueAnchor } from '../../shared/schemas/cues'
+import { deltaTHourAngleRad } from '../../shared/eclipse/besselian'
+import { shadowApproachFromDeg } from '../../shared/eclipse/local'
+import { utcMsToT } from '../../shared/eclipse/time'
+import type { BesselianElements } from '../../shared/eclipse/types'
+import { compassShort, compassWords, cueOffsetProblems, planCues, type CueAnchor, type CueInput } from '../../shared/safety/cues'
+import { localKindOf, phaseWords, safetyLines } from '../../shared/safety/text'
 import { isoTenths } from '../../shared/eclipse/time'
 import { localTime } from '../../shared/time/local'
 import type { Database, User } from '../database/schema'
-import { localReport } from '../eclipse/report'
+import { localReport, type LocalReport } from '../eclipse/report'
 import { audit } from './audit'
 import { elementsInForce } from './eclipses'
 import { NotFoundError, zoneAt } from './planning'
-import { getTripRow, isTripGuide } from './trips'
+import { getTripRow, isTripGuide, type TripRow } from './trips'
 
 const PLANETS: Array<[Astronomy.Body, string]> = [
   [Astronomy.Body.Venus, 'Venus'], [Astronomy.Body.Jupiter, 'Jupiter'], [Astronomy.Body.Mercury, 'Mercury'], [Astronomy.Body.Mars, 'Mars'], [Astronomy.Body.Saturn, 'Saturn'],
 ]
-const COMPASS = ['N', 'NNE', 'NE', 'ENE', 'E', 'ESE', 'SE', 'SSE', 'S', 'SSW', 'SW', 'WSW', 'W', 'WNW', 'NW', 'NNW']
-export const compass = (az: number) => COMPASS[Math.round((((az % 360) + 360) % 360) / 22.5) % 16]!
+export const compass = compassShort
 
 /** Planets above the horizon at an instant, with their direction (astronomy-engine, topocentric, refracted). */
 export function planetsAt(utcMs: number, lat: number, lon: number, elevationM: number) {
@@ -28,6 +32,11 @@ export function planetsAt(utcMs: number, lat: number, lon: number, elevationM: n
   }).filter((p) => p.altitudeDeg > 3 && p.magnitude < 2.5)
 }
 
+/** Refused cue edits: one message per cue, naming the allowed range. */
+export class CueRuleError extends Error {
+  constructor(public fields: Record<string, string>) { super(Object.values(fields).join('; ')) }
+}
+
 /** May this user see the trip's timetable? Organisers, and guides assigned to the trip. */
 export async function assertTimetableAccess(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
@@ -36,15 +45,43 @@ export async function assertTimetableAccess(db: Kysely<Database>, user: User, tr
   throw new NotFoundError('No such trip')
 }
 
-export async function timetable(db: Kysely<Database>, tripId: number) {
-  const trip = await getTripRow(db, tripId)
-  const backups = await db.selectFrom('trip_backup_sites').select('site_id').where('trip_id', '=', tripId).orderBy('rank').execute()
+const CONTACTS: CueAnchor[] = ['c1', 'c2', 'max', 'c3', 'c4']
+
+/** What the cue rule needs about one site, from its local report. */
+export function cueInputFor(el: BesselianElements, r: LocalReport, trip: Pick<TripRow, 'filter_margin_sigmas' | 'filter_margin_end_sec'>,
+  offsets: Record<string, number>, planets: CueInput['planets']): CueInput {
+  const contacts: CueInput['contacts'] = {}
+  for (const k of CONTACTS) {
+    const c = r[k]
+    if (c) contacts[k] = { utcMs: Date.parse(c.utc), uncertaintySec: c.uncertaintySec, direction: c.direction }
+  }
+  let shadowFrom: string | undefined
+  if (r.max) {
+    const clock = r.time.ttMinusUtcSec ?? r.time.deltaTSec
+    const from = shadowApproachFromDeg(el, utcMsToT(el, Date.parse(r.max.utc), clock), deltaTHourAngleRad(r.time.deltaTSec))
+    if (from !== null) shadowFrom = compassWords(from)
+  }
+  return {
+    kind: localKindOf(r.type), contacts, offsets, planets, shadowFrom,
+    margins: { sigmas: trip.filter_margin_sigmas, endSec: trip.filter_margin_end_sec },
+  }
+}
+
+async function tripSites(db: Kysely<Database>, trip: TripRow) {
+  const backups = await db.selectFrom('trip_backup_sites').select('site_id').where('trip_id', '=', trip.id).orderBy('rank').execute()
   const siteIds = [trip.primary_site_id, ...backups.map((b) => b.site_id)]
   const rows = await db.selectFrom('sites').selectAll().where('id', 'in', siteIds).execute()
+  return siteIds.map((sid) => rows.find((r) => r.id === sid)!)
+}
+
+const offsetsOf = (trip: TripRow): Record<string, number> => (trip.cue_offsets ? JSON.parse(trip.cue_offsets) : {})
+
+export async function timetable(db: Kysely<Database>, tripId: number) {
+  const trip = await getTripRow(db, tripId)
+  const rows = await tripSites(db, trip)
   const { el, deltaTOverride } = await elementsInForce(db, trip.eclipse_id)
-  const offsets: Record<string, number> = trip.cue_offsets ? JSON.parse(trip.cue_offsets) : {}
-  const sites = siteIds.map((sid, i) => {
-    const s = rows.find((r) => r.id === sid)!
+  const offsets = offsetsOf(trip)
+  const sites = rows.map((s, i) => {
     const r = localReport(trip.eclipse_id, el, { latDeg: s.lat, lonDeg: s.lon, elevationM: s.elevation_m }, deltaTOverride)
     const zone = zoneAt(s.lat, s.lon)
     const contact = (k: CueAnchor) => {
@@ -57,33 +94,54 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       }
     }
     const contacts = { c1: contact('c1'), c2: contact('c2'), max: contact('max'), c3: contact('c3'), c4: contact('c4') }
-    const kind = (r.type === 'none' ? 'partial' : r.type) as 'total' | 'annular' | 'partial'
+    const kind = localKindOf(r.type)
     const planets = contacts.max ? planetsAt(Date.parse(contacts.max.utc), s.lat, s.lon, s.elevation_m) : []
-    const cues = DEFAULT_CUES.filter((c) => c.for.includes(kind) && contacts[c.anchor]).map((c) => {
-      const offsetSec = offsets[c.key] ?? c.offsetSec
-      const utcMs = Date.parse(contacts[c.anchor]!.utc) + offsetSec * 1000
-      let label = c.label
-      if (c.key === 'planets') label = planets.length ? `Look for ${planets.map((p) => `${p.name} ${p.altitudeDeg}° up in the ${compass(p.azimuthDeg)}`).join(', ')}` : 'No bright planet is above the horizon'
-      if (c.key === 'filters-on' && contacts.c3?.direction) label += `; the diamond ring appears ${contacts.c3.direction}`
-      if (c.key === 'beads' && contacts.c2?.direction) label += `; the last light is ${contacts.c2.direction}`
-      return { key: c.key, anchor: c.anchor, offsetSec, label, filters: c.filters, utc: isoTenths(utcMs), ...localTime(utcMs, zone) }
-    })
+    const plan = planCues(cueInputFor(el, r, trip, offsets, planets))
+    const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(c.utcMs, zone) }))
     return {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(Date.now(), zone).utcOffset,
-      type: r.type, durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
-      contacts, cues, planets, deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
+      type: r.type, kind, words: phaseWords(kind), durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
+      contacts, cues, notice: plan.notice,
+      filtersOffWindow: plan.window ? { startUtc: isoTenths(plan.window.startMs), endUtc: isoTenths(plan.window.endMs) } : null,
+      planets, safety: safetyLines(kind), deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
     }
   })
+  const primaryKind = sites[0]?.kind ?? 'partial'
   return {
-    trip: { id: trip.id, title: trip.title, eclipseId: trip.eclipse_id, meetingPoint: { name: trip.meeting_name, timeUtc: trip.meeting_time_utc } },
-    sites, safety: SAFETY_LINES, elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec, generatedAt: new Date().toISOString(),
+    trip: {
+      id: trip.id, title: trip.title, eclipseId: trip.eclipse_id, meetingPoint: { name: trip.meeting_name, timeUtc: trip.meeting_time_utc },
+      margins: { sigmas: trip.filter_margin_sigmas, endSec: trip.filter_margin_end_sec },
+      /** Offsets saved on the trip (seconds from each cue's contact); cues not listed use the defaults. */
+      cueOffsets: offsets,
+    },
+    sites, safety: safetyLines(primaryKind), words: phaseWords(primaryKind), elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec,
+    time: sites[0]?.time, generatedAt: new Date().toISOString(),
   }
 }
+export type Timetable = Awaited<ReturnType<typeof timetable>>
 
-export async function setCueOffsets(db: Kysely<Database>, user: User, tripId: number, offsets: Record<string, number>) {
+/**
+ * Saves cue offsets (and, for organisers, wider margins) after checking them at every site of the
+ * trip: an offset that would put a filters-off cue outside any site's window is refused whole.
+ */
+export async function setCueOffsets(db: Kysely<Database>, user: User, tripId: number, offsets: Record<string, number>,
+  margins?: { sigmas: number; endSec: number }) {
+  const trip = await getTripRow(db, tripId)
+  const next = { ...trip, ...(margins ? { filter_margin_sigmas: margins.sigmas, filter_margin_end_sec: margins.endSec } : {}) }
+  const rows = await tripSites(db, trip)
+  const { el, deltaTOverride } = await elementsInForce(db, trip.eclipse_id)
+  const fields: Record<string, string> = {}
+  for (const s of rows) {
+    const r = localReport(trip.eclipse_id, el, { latDeg: s.lat, lonDeg: s.lon, elevationM: s.elevation_m }, deltaTOverride)
+    for (const p of cueOffsetProblems(cueInputFor(el, r, next, offsets, []), s.name)) fields[`offsets.${p.key}`] ??= p.message
+  }
+  if (Object.keys(fields).length) throw new CueRuleError(fields)
   await db.transaction().execute(async (trx) => {
-    await trx.updateTable('trips').set({ cue_offsets: JSON.stringify(offsets) }).where('id', '=', tripId).execute()
-    await audit(trx, { action: 'cue_offsets', actorUserId: user.id, detail: { tripId, offsets } })
+    await trx.updateTable('trips').set({
+      cue_offsets: JSON.stringify(offsets),
+      ...(margins ? { filter_margin_sigmas: margins.sigmas, filter_margin_end_sec: margins.endSec } : {}),
+    }).where('id', '=', tripId).execute()
+    await audit(trx, { action: 'cue_offsets', actorUserId: user.id, detail: { tripId, offsets, margins } })
   })
 }

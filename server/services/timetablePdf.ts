@@ -7,10 +7,9 @@ type Timetable = Awaited<ReturnType<typeof timetable>>
 const fontPath = (weight: 400 | 600 | 700) => createRequire(import.meta.url).resolve(`@fontsource/work-sans/files/work-sans-latin-${weight}-normal.woff`)
 
 /** The embedded latin subset of Work Sans has no Greek or astronomical symbols: spell them out. */
-const plain = (t: string) => t.replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
+const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
 
 const INK = '#1a1633', MUTED = '#62579b', GOLD = '#d8901b', RED = '#a8362d'
-const NAMES: Record<string, string> = { c1: 'C1  partial begins', c2: 'C2  central phase begins', max: 'Maximum', c3: 'C3  central phase ends', c4: 'C4  partial ends' }
 
 /** The contact timetable as a PDF: one page per site, A4 or US Letter, Work Sans embedded. */
 export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buffer> {
@@ -32,7 +31,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationM} m · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
     doc.moveDown(0.4)
     doc.font('ws-semi').fontSize(11).fillColor(INK)
-      .text(`${s.type === 'total' ? 'Totality' : s.type === 'annular' ? 'Annularity' : 'Partial eclipse'}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`)
+      .text(`${s.words.eclipseName}${s.words.central ? ` — ${s.words.central}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'}` : ''} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`)
 
     // Contacts table
     let y = doc.y + 8
@@ -45,7 +44,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
       if (!c) continue
       doc.moveTo(left, y - 3).lineTo(left + width, y - 3).lineWidth(0.4).strokeColor('#d2cee8').stroke()
       doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
-      doc.text(NAMES[k]!, left + cols[0]!, y)
+      doc.text(plain(s.words.contact[k]), left + cols[0]!, y)
       doc.text(c.local.slice(11), left + cols[1]!, y)
       doc.font('ws').text(c.utc.slice(11, 21), left + cols[2]!, y)
       doc.text(`${c.uncertaintySec.toFixed(1)} s`, left + cols[3]!, y)
@@ -74,10 +73,17 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     y = tableBottom + 8
     doc.font('ws-bold').fontSize(12).fillColor(INK).text('Cues', left, y)
     y = doc.y + 4
+    if (s.notice) {
+      doc.font('ws-bold').fontSize(10).fillColor(RED).text(s.notice, left, y, { width })
+      y = doc.y + 6
+    } else if (s.filtersOffWindow) {
+      doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(`Filters may be off only from ${s.filtersOffWindow.startUtc.slice(11, 21)} to ${s.filtersOffWindow.endUtc.slice(11, 21)} UTC (C2 + ${t.trip.margins.sigmas} σ to C3 − ${t.trip.margins.sigmas} σ − ${t.trip.margins.endSec} s).`), left, y, { width })
+      y = doc.y + 6
+    }
     for (const c of s.cues) {
       doc.font('ws-semi').fontSize(10).fillColor(c.filters === 'off' ? RED : INK).text(c.local.slice(11), left, y, { width: 60 })
       doc.font('ws').fontSize(8).fillColor(MUTED).text(`UTC ${new Date(Math.round(Date.parse(c.utc) / 1000) * 1000).toISOString().slice(11, 19)}`, left, y + 12, { width: 60 })
-      doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(`${c.label}${c.filters !== 'unchanged' ? `  [filters ${c.filters}]` : ''}`), left + 70, y, { width: width - 70 })
+      doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(`${c.label}  [filters ${c.filters}]`), left + 70, y, { width: width - 70 })
       y = Math.max(doc.y, y + 22) + 4
     }
     // Safety block
@@ -85,7 +91,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     const boxTop = y
     doc.font('ws-bold').fontSize(10).fillColor(RED).text('Eye safety', left + 10, y + 8)
     doc.font('ws').fontSize(9).fillColor(INK)
-    for (const line of t.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
+    for (const line of s.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
     doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
     doc.font('ws').fontSize(7.5).fillColor(MUTED)
       .text(plain(`${s.time.line} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })

@@ -1,5 +1,6 @@
 import type { Kysely, Selectable } from 'kysely'
 import { localTime } from '../../shared/time/local'
+import { localKindOf, phaseWords } from '../../shared/safety/text'
 import type { CancellationTierInput, TripCreateInput } from '../../shared/schemas/trips'
 import type { Database, TripsTable, User } from '../database/schema'
 import { localReport } from '../eclipse/report'
@@ -109,7 +110,11 @@ export async function tripDetail(db: Kysely<Database>, t: TripRow) {
   const contacts = (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => r[k]).map((k) => ({
     name: k, utc: r[k]!.utc, ...localTime(Date.parse(r[k]!.utc), zone), altitudeDeg: r[k]!.apparentAltitudeDeg, uncertaintySec: r[k]!.uncertaintySec,
   }))
-  return { ...summary, eclipse: { type: r.type, durationSec: r.durationSec, magnitude: r.magnitude, zone, contacts, deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource } }
+  const kind = localKindOf(r.type)
+  return {
+    ...summary,
+    eclipse: { type: r.type, kind, words: phaseWords(kind), durationSec: r.durationSec, magnitude: r.magnitude, zone, contacts, deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource },
+  }
 }
 
 export async function isTripGuide(db: Kysely<Database>, tripId: number, userId: number): Promise<boolean> {

@@ -2,11 +2,13 @@ import { BookingStateError, SoldOutError } from '../services/bookings'
 import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
+import { CueRuleError } from '../services/timetable'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof UnknownEclipseError) return createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
   if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
+  if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
   if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })
   if (e instanceof SoldOutError) {
     return createError({ statusCode: 409, statusMessage: 'Sold out', message: e.message, data: { code: e.available === 0 ? 'sold_out' : 'not_enough_seats', available: e.available, waitlist: true } })

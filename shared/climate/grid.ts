@@ -62,14 +62,15 @@ export function sampleGrid(g: Grid, lat: number, lon: number): Sample {
 }
 
 /**
- * Chance of a clear enough sky. With cloud categories, the NASA eclipse-bulletin weighting:
+ * Chance of a clear enough sky. With cloud categories, the sky-category weighting used in NASA's
+ * eclipse bulletins' weather tables (common practice):
  * (% clear + 0.72 × % scattered + 0.225 × % broken) / 100. Otherwise the simpler estimate
  * 1 − mean cloud fraction.
  */
 export function pClearOf(cloudPct: number, categories?: { clear: number; scattered: number; broken: number }): { pClear: number; method: string } {
   if (categories) {
     const p = (categories.clear + 0.72 * categories.scattered + 0.225 * categories.broken) / 100
-    return { pClear: Math.min(1, Math.max(0, p)), method: 'bulletin weighting: clear + 0.72 × scattered + 0.225 × broken' }
+    return { pClear: Math.min(1, Math.max(0, p)), method: 'sky-category weighting: clear + 0.72 × scattered + 0.225 × broken' }
   }
   return { pClear: Math.min(1, Math.max(0, 1 - cloudPct / 100)), method: 'simpler estimate: 1 − mean cloud fraction' }
 }

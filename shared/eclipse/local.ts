@@ -247,6 +247,15 @@ export function centrelineBearing(el: BesselianElements, t: number, dH: number):
 }
 
 /**
+ * Bearing (degrees from north, clockwise) from which the umbra or antumbra approaches, from the
+ * centreline's ground track at t: the direction of travel turned round. Null off the path.
+ */
+export function shadowApproachFromDeg(el: BesselianElements, t: number, dH: number): number | null {
+  const b = centrelineBearing(el, t, dH)
+  return b === null ? null : (b + 180) % 360
+}
+
+/**
  * Distance (km) from the centreline point at t, along the perpendicular geodesic, to the
  * limit on one side (side = +1 north, −1 south): the root of f(s) = side, secant method.
  */

@@ -55,7 +55,7 @@ describe('trips', () => {
     const trav = await signIn(TRAVELLER)
     expect((await api(`/api/trips/${draft.body.id}`, { cookie: trav })).status).toBe(404)
     expect((await api('/api/trips', { cookie: trav })).body.data.some((t: { title: string }) => t.title === 'Draft trip')).toBe(false)
-    const demo = (await api('/api/trips')).body.data.find((t: { title: string }) => t.title.includes('(demo)'))
+    const demo = (await api('/api/trips')).body.data.find((t: { title: string }) => t.title.startsWith('Luxor'))
     const d = await api(`/api/trips/${demo.id}`)
     expect(d.body.eclipse.type).toBe('total')
     expect(d.body.eclipse.contacts.map((c: { name: string }) => c.name)).toEqual(['c1', 'c2', 'max', 'c3', 'c4'])
@@ -173,7 +173,7 @@ describe('who sees what', () => {
   })
 
   it('a guide sees the participant list of their trip, with no payments', async () => {
-    const demo = (await api('/api/trips')).body.data.find((t: { title: string }) => t.title.includes('(demo)'))
+    const demo = (await api('/api/trips')).body.data.find((t: { title: string }) => t.title.startsWith('Luxor'))
     const r = await api(`/api/trips/${demo.id}/participants`, { cookie: await signIn(GUIDE) })
     expect(r.status).toBe(200)
     expect(r.body.data[0]).toEqual({ name: 'Samir Okafor (demo traveller)', seats: 2 })

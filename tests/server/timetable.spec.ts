@@ -45,9 +45,9 @@ describe('contact timetable', () => {
       expect(tarifa.contacts[k].utcOffset).toBe('+02:00')
       expect(luxor.contacts[k].local).toBe(shift(luxor.contacts[k].utc, 3))
     }
-    // every cue is derived from its contact
+    // every cue is derived from its contact; filters off waits 2 σ after C2 (the cue rule)
     const off = tarifa.cues.find((c: { key: string }) => c.key === 'filters-off')
-    expect(off.utc.slice(0, 21)).toBe(tarifa.contacts.c2.utc.slice(0, 21))
+    expect(Date.parse(off.utc) - Date.parse(tarifa.contacts.c2.utc)).toBeCloseTo(2 * tarifa.contacts.c2.uncertaintySec * 1000, -2)
     const beads = tarifa.cues.find((c: { key: string }) => c.key === 'beads')
     expect(Date.parse(tarifa.contacts.c2.utc) - Date.parse(beads.utc)).toBeCloseTo(12_000, -2)
     expect(tarifa.contacts.c2.direction).toMatch(/o'clock/)
@@ -83,11 +83,21 @@ describe('contact timetable', () => {
     })
   })
 
-  it('cue offsets are stored per trip and never put "filters off" before C2', async () => {
+  it('cue offsets are stored per trip and never put "filters off" outside the safe window', async () => {
     const cookie = await signIn(GUIDE)
     const bad = await api('/api/trips/1/cues', { method: 'PUT', body: { offsets: { 'filters-off': -5 } }, cookie })
     expect(bad.status).toBe(400)
-    expect(bad.body.data.fields['offsets.filters-off']).toMatch(/before C2/)
+    expect(bad.body.data.fields['offsets.filters-off']).toMatch(/outside the safe window at Luxor West Bank; allowed: C2 \+ \d+\.\d s to C2 \+ \d+\.\d s/)
+    // The guide's edit that moves "chromosphere" twenty minutes on is refused, naming the cue and its range.
+    const late = await api('/api/trips/1/cues', { method: 'PUT', body: { offsets: { chromosphere: 1200 } }, cookie })
+    expect(late.status).toBe(400)
+    expect(late.body.data.fields['offsets.chromosphere']).toMatch(/"chromosphere".*allowed: C2 \+/)
+    // Guides cannot narrow (or touch) the margins; organisers may widen but not narrow them.
+    expect((await api('/api/trips/1/cues', { method: 'PUT', body: { offsets: {}, margins: { sigmas: 3, endSec: 10 } }, cookie })).status).toBe(403)
+    const org = await signIn(ORGANISER)
+    const narrow = await api('/api/trips/1/cues', { method: 'PUT', body: { offsets: {}, margins: { sigmas: 1, endSec: 5 } }, cookie: org })
+    expect(narrow.status).toBe(400)
+    expect(narrow.body.data.fields['margins.sigmas']).toMatch(/never narrowed/)
     expect((await api('/api/trips/1/cues', { method: 'PUT', body: { offsets: { shadow: -90 } }, cookie })).status).toBe(200)
     const t = await api('/api/trips/1/timetable', { cookie })
     const s = t.body.sites[0]
@@ -104,5 +114,87 @@ describe('contact timetable', () => {
     const c2 = new Date(Math.round(Date.parse(s.contacts.c2.utc) / 1000) * 1000).toISOString().replace(/[-:]/g, '').slice(0, 15) + 'Z'
     expect(ics.body).toContain(`DTSTART:${c2}`)
     expect((ics.body.match(/BEGIN:VEVENT/g) ?? []).length).toBe(5 + s.cues.length)
+    // Every event carries the one safety text and the time basis (ICS folds long lines: unfold first).
+    const unfolded = ics.body.replace(/\r?\n[ \t]/g, '')
+    const descriptions = unfolded.split(/\r?\n/).filter((l: string) => l.startsWith('DESCRIPTION:'))
+    expect(descriptions).toHaveLength(5 + s.cues.length)
+    for (const d of descriptions) {
+      expect(d).toContain('ISO 12312-2')
+      expect(d).toContain('Follow local rules and qualified advice.')
+      expect(d).toContain('TT − UTC = 69.184 s')
+    }
+  })
+
+  it('cues come sorted by time at every site', async () => {
+    const t = await api('/api/trips/1/timetable', { cookie: await signIn(GUIDE) })
+    for (const s of t.body.sites) {
+      const times = s.cues.map((c: { utc: string }) => Date.parse(c.utc))
+      expect(times).toEqual([...times].sort((a, b) => a - b))
+    }
+  })
+})
+
+describe('eye safety at the edge of the path and on annular trips', () => {
+  it('a site with 4–10 s of totality near the north limit of 2027-08-02 gets no filters-off cue, and the timetable says why', async () => {
+    const { computedElementsFor } = await import('../../server/eclipse/catalogue')
+    const { localReport } = await import('../../server/eclipse/report')
+    const { deltaTHourAngleRad, greatestT, offsetPoint } = await import('../../shared/eclipse')
+    const el = computedElementsFor('2027-08-02')!
+    const dH = deltaTHourAngleRad(el.deltaTSec)
+    const tg = greatestT(el) - 0.02
+    // Bisect across the northern limit for a point seeing about 7 s of totality.
+    const at = (f: number) => offsetPoint(el, tg, f, 'umbra', dH)!
+    const dur = (f: number) => localReport('2027-08-02', el, { latDeg: at(f).latDeg, lonDeg: at(f).lonDeg }, null).durationSec
+    let lo = 0.99, hi = 1.0
+    for (let i = 0; i < 40; i++) { const mid = (lo + hi) / 2; if (dur(mid) > 7) lo = mid; else hi = mid }
+    const p = at(lo)
+    const org = await signIn(ORGANISER)
+    const site = await api('/api/workspaces/1/sites', { method: 'POST', body: { name: 'North-limit edge', lat: p.latDeg, lon: p.lonDeg, elevationM: 0 }, cookie: org })
+    expect(site.status).toBe(201)
+    expect(site.body.metrics.durationSec).toBeGreaterThanOrEqual(4)
+    expect(site.body.metrics.durationSec).toBeLessThanOrEqual(10)
+    const trip = await api('/api/trips', { method: 'POST', cookie: org, body: {
+      workspaceId: 1, primarySiteId: 4, backupSiteIds: [site.body.id], title: 'Edge of the shadow', startDate: '2027-07-31', endDate: '2027-08-03', seats: 5,
+      priceMinor: 100, depositMinor: 10, currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'x', lat: 25.7, lon: 32.6, time: '2027-08-02T03:30:00Z' },
+    } })
+    const t = await api(`/api/trips/${trip.body.id}/timetable`, { cookie: org })
+    const edge = t.body.sites[1]
+    expect(edge.type).toBe('total')
+    expect(edge.cues.some((c: { filters: string }) => c.filters === 'off')).toBe(false)
+    expect(edge.notice).toBe('Totality here is too short to remove filters safely; keep them on.')
+    expect(edge.filtersOffWindow).toBeNull()
+    // The primary site still has its window and its filters-off cue.
+    expect(t.body.sites[0].cues.some((c: { key: string }) => c.key === 'filters-off')).toBe(true)
+    // The PDF says it too.
+    const res = await fetch(url(`/api/trips/${trip.body.id}/timetable.pdf`), { headers: { cookie: org } })
+    const pages = await pdfText(await res.arrayBuffer())
+    expect(pages[1]).toContain('Totality here is too short to remove filters safely; keep them on.')
+  })
+
+  it('the demo annular trip says "annularity" on its page, timetable, PDF and calendar file, never "totality", and keeps filters on', async () => {
+    const org = await signIn(ORGANISER)
+    const list = await api('/api/trips', { cookie: org })
+    const annular = list.body.data.find((x: { title: string }) => /Punta del Este/.test(x.title))
+    expect(annular).toBeTruthy()
+    const page = await api(`/api/trips/${annular.id}`)
+    expect(page.body.eclipse.kind).toBe('annular')
+    expect(page.body.eclipse.words.eclipseName).toBe('Annular solar eclipse')
+    expect(page.body.eclipse.words.contact.c2).toBe('C2 — annularity begins')
+    expect(JSON.stringify(page.body)).not.toMatch(/totality/i)
+    const t = await api(`/api/trips/${annular.id}/timetable`, { cookie: await signIn(GUIDE) })
+    expect(t.status).toBe(200)
+    for (const s of t.body.sites) {
+      expect(s.kind).toBe('annular')
+      expect(s.cues.some((c: { filters: string }) => c.filters === 'off')).toBe(false)
+      expect(s.safety.join(' ')).toMatch(/keep viewers and filters on throughout/)
+    }
+    expect(JSON.stringify(t.body.sites)).not.toMatch(/totality/i)
+    const ics = await api(`/api/trips/${annular.id}/sites/${t.body.sites[0].siteId}/timetable.ics`, { cookie: org })
+    expect(ics.body).toMatch(/annularity begins/)
+    expect(ics.body).not.toMatch(/totality/i)
+    const res = await fetch(url(`/api/trips/${annular.id}/timetable.pdf`), { headers: { cookie: org } })
+    const pages = await pdfText(await res.arrayBuffer())
+    expect(pages.join(' ')).toMatch(/annularity/)
+    expect(pages.join(' ')).not.toMatch(/totality/i)
   })
 })

@@ -82,14 +82,14 @@ describe('GeoTIFF import', () => {
 
 describe('CSV grid import', () => {
   const header = 'lat,lon,month,cloud_pct,clear_pct,scattered_pct,broken_pct\n'
-  it('reads a regular grid with categories; P(clear) uses the bulletin weighting', () => {
+  it('reads a regular grid with categories; P(clear) uses the sky-category weighting', () => {
     const csv = header + ['10,20,8,40,50,20,20', '10,21,8,40,50,20,20', '11,20,8,40,50,20,20', '11,21,8,40,50,20,20'].join('\n')
     const grid = parseCsvGrid(csv)
     const m = grid.months.get(8)!
     const at = cloudAt({ meta: { name: 'T', demo: 0 } as never, cloud: { ...grid, values: m.cloud }, clear: { ...grid, values: m.clear! }, scattered: { ...grid, values: m.scattered! }, broken: { ...grid, values: m.broken! } }, 10.5, 20.5)
     expect(at.cloudPct).toBe(40)
     expect(at.pClear).toBeCloseTo(0.689, 3)
-    expect(at.pClearMethod).toMatch(/bulletin/)
+    expect(at.pClearMethod).toMatch(/sky-category weighting/)
   })
   it.each([
     ['a ragged grid', header.split(',').slice(0, 4).join(',') + '\n10,20,8,40\n10,21,8,40\n11,20,8,40\n', /missing 1 of 4 cells/],

@@ -5,6 +5,7 @@ import * as m0003 from './0003_planning'
 import * as m0004 from './0004_climatology'
 import * as m0005 from './0005_trips'
 import * as m0006 from './0006_outbox'
+import * as m0007 from './0007_filter_margins'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -14,4 +15,5 @@ export const migrations: Record<string, Migration> = {
   '0004_climatology': m0004,
   '0005_trips': m0005,
   '0006_outbox': m0006,
+  '0007_filter_margins': m0007,
 }

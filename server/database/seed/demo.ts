@@ -29,6 +29,30 @@ export const DEMO_SITES: Array<{ name: string; lat: number; lon: number; elevati
   { name: 'Aswan (outside the path)', lat: 24.0889, lon: 32.8998, elevationM: 110, notes: 'Demo: shows a partial-only site, 140 km south of the centreline.', road: 'paved', capacity: 100, border: false },
 ]
 
+/** Demo: a second, annular eclipse (2027-02-06) on the Uruguayan coast; real places, invented notes. */
+export const DEMO_ANNULAR_WORKSPACE = { eclipseId: '2027-02-06', name: 'Demo — Río de la Plata annular' }
+export const DEMO_ANNULAR_SITES: typeof DEMO_SITES = [
+  { name: 'Punta del Este, Playa Brava', lat: -34.962, lon: -54.944, elevationM: 5, notes: 'Demo: resort beach; the Sun is high in the north-west.', road: 'paved', capacity: 120, border: false, pinned: true },
+  { name: 'José Ignacio lighthouse', lat: -34.84, lon: -54.63, elevationM: 15, notes: 'Demo: nearer the centreline; small village, book early.', road: 'paved', capacity: 40, border: false },
+  { name: 'Montevideo Rambla (outside the path)', lat: -34.9, lon: -56.16, elevationM: 10, notes: 'Demo: shows a partial-only site north-west of the path.', road: 'paved', capacity: 200, border: false },
+]
+export const DEMO_ANNULAR_TRIP_TITLE = 'Ring of sunlight over Punta del Este, February 2027 (demo)'
+
+async function seedWorkspace(trx: Kysely<Database>, organiserId: number, w: { eclipseId: string; name: string }, sites: typeof DEMO_SITES) {
+  await trx.insertInto('workspaces').values({ eclipse_id: w.eclipseId, name: w.name, created_by: organiserId })
+    .onConflict((oc) => oc.columns(['eclipse_id', 'name']).doNothing()).execute()
+  const ws = await trx.selectFrom('workspaces').select('id').where('eclipse_id', '=', w.eclipseId).where('name', '=', w.name).executeTakeFirstOrThrow()
+  const existing = new Set((await trx.selectFrom('sites').select('name').where('workspace_id', '=', ws.id).execute()).map((r) => r.name))
+  for (const s of sites) {
+    if (existing.has(s.name)) continue
+    await trx.insertInto('sites').values({
+      workspace_id: ws.id, name: s.name, lat: s.lat, lon: s.lon, elevation_m: s.elevationM, notes: s.notes,
+      road_access: s.road, capacity: s.capacity, crosses_border: s.border ? 1 : 0, pinned: s.pinned ? 1 : 0,
+    }).execute()
+  }
+  return ws.id
+}
+
 export async function seedDemo(db: Kysely<Database>): Promise<void> {
   const hash = await hashPassword(DEMO_PASSWORD)
   await db.transaction().execute(async (trx) => {
@@ -37,17 +61,8 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
         .onConflict((oc) => oc.column('email').doNothing()).execute()
     }
     const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
-    await trx.insertInto('workspaces').values({ eclipse_id: DEMO_WORKSPACE.eclipseId, name: DEMO_WORKSPACE.name, created_by: organiser.id })
-      .onConflict((oc) => oc.columns(['eclipse_id', 'name']).doNothing()).execute()
-    const ws = await trx.selectFrom('workspaces').select('id').where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).executeTakeFirstOrThrow()
-    const existing = new Set((await trx.selectFrom('sites').select('name').where('workspace_id', '=', ws.id).execute()).map((r) => r.name))
-    for (const s of DEMO_SITES) {
-      if (existing.has(s.name)) continue
-      await trx.insertInto('sites').values({
-        workspace_id: ws.id, name: s.name, lat: s.lat, lon: s.lon, elevation_m: s.elevationM, notes: s.notes,
-        road_access: s.road, capacity: s.capacity, crosses_border: s.border ? 1 : 0, pinned: s.pinned ? 1 : 0,
-      }).execute()
-    }
+    await seedWorkspace(trx, organiser.id, DEMO_WORKSPACE, DEMO_SITES)
+    await seedWorkspace(trx, organiser.id, DEMO_ANNULAR_WORKSPACE, DEMO_ANNULAR_SITES)
   })
   // The invented demo cloud grid, chosen for the demo workspace.
   let cloud = await db.selectFrom('climatology_datasets').select('id').where('demo', '=', 1).executeTakeFirst()
@@ -61,6 +76,31 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
   await db.updateTable('workspaces').set({ climatology_id: cloud.id })
     .where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).where('climatology_id', 'is', null).execute()
   await seedDemoTrip(db)
+  await seedDemoAnnularTrip(db)
+}
+
+/** Demo: a published annular trip (no bookings), so every output can be seen in its annular wording. */
+async function seedDemoAnnularTrip(db: Kysely<Database>) {
+  await db.transaction().execute(async (trx) => {
+    if (await trx.selectFrom('trips').select('id').where('title', '=', DEMO_ANNULAR_TRIP_TITLE).executeTakeFirst()) return
+    const ws = await trx.selectFrom('workspaces').select('id').where('name', '=', DEMO_ANNULAR_WORKSPACE.name).executeTakeFirstOrThrow()
+    const site = (name: string) => trx.selectFrom('sites').select('id').where('workspace_id', '=', ws.id).where('name', '=', name).executeTakeFirstOrThrow()
+    const primary = await site('Punta del Este, Playa Brava')
+    const backup = await site('José Ignacio lighthouse')
+    const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
+    const guide = await trx.selectFrom('users').select('id').where('email', '=', 'guide@umbrafield.test').executeTakeFirstOrThrow()
+    const trip = await trx.insertInto('trips').values({
+      workspace_id: ws.id, eclipse_id: DEMO_ANNULAR_WORKSPACE.eclipseId, primary_site_id: primary.id, title: DEMO_ANNULAR_TRIP_TITLE,
+      description: 'Demo trip by the invented company Kestrel Sky Journeys: four nights on the Uruguayan coast for the annular eclipse of 6 February 2027. Filters stay on throughout an annular eclipse. Prices and terms are invented.',
+      start_date: '2027-02-04', end_date: '2027-02-08', meeting_name: 'Hotel lobby, Rambla Lorenzo Batlle, Punta del Este (demo)',
+      meeting_lat: -34.955, meeting_lon: -54.935, meeting_time_utc: '2027-02-06T13:00:00.000Z', seats: 16,
+      price_minor: 189_000, deposit_minor: 40_000, currency: 'usd', balance_due_date: '2027-01-10',
+      cancellation_tiers: JSON.stringify([{ until: '2026-12-31', refundPct: 100 }]),
+      min_group_size: 6, status: 'published', created_by: organiser.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    await trx.insertInto('trip_backup_sites').values({ trip_id: trip.id, site_id: backup.id, rank: 0 }).execute()
+    await trx.insertInto('trip_guides').values({ trip_id: trip.id, user_id: guide.id }).execute()
+  })
 }
 
 /** Demo: one published, invented trip to the Luxor site, with the demo guide and one confirmed demo booking. */

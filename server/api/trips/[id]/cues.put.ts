@@ -2,11 +2,16 @@ import { IdParams } from '#shared/schemas/auth'
 import { CueOffsetsBody } from '#shared/schemas/cues'
 import { assertTimetableAccess, setCueOffsets } from '../../../services/timetable'
 
-/** The trip's guides (and organisers) set cue offsets in seconds from their contact. */
+/**
+ * The trip's guides (and organisers) set cue offsets in seconds from their contact; organisers may
+ * also widen the filters-off margins. An edit that breaks the cue rule at any site is a 400 naming
+ * the cue and the range allowed.
+ */
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
-  const { offsets } = await readBodyAs(event, CueOffsetsBody)
-  await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); await setCueOffsets(useDb(), user, id, offsets) })
-  return { ok: true, offsets }
+  const { offsets, margins } = await readBodyAs(event, CueOffsetsBody)
+  if (margins && user.role !== 'organiser') throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Only organisers set the safety margins' })
+  await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); await setCueOffsets(useDb(), user, id, offsets, margins) })
+  return { ok: true, offsets, margins }
 })

@@ -1,0 +1,230 @@
+import { phaseWords, type LocalKind } from './text'
+
+/**
+ * The cue rule: when a guide tells the group to take filters off and put them back on.
+ * One function, planCues, serves the timetable, its PDF, the calendar files, the e-mails, the
+ * countdown and the countdown's recomputation for the device's own position.
+ *
+ * A cue that calls for filters off may only fall inside the window
+ *   [C2 + m·σ(C2),  C3 − m·σ(C3) − e]
+ * where σ is the contact's stated one-sigma uncertainty, m = 2 and e = 5 s by default (an
+ * organiser may widen both per trip, never narrow them). "Filters back on" falls no later than the
+ * window's end. When the window is shorter than 5 s there is no filters-off cue at all.
+ * Annular and partial sites never get a filters-off cue. Cues come out sorted by time.
+ */
+
+export type CueAnchor = 'c1' | 'c2' | 'max' | 'c3' | 'c4'
+
+export interface CueDefinition {
+  key: string
+  anchor: CueAnchor
+  /** Default offset from the anchor, seconds. */
+  offsetSec: number
+  /** Local kinds the cue applies to. */
+  for: LocalKind[]
+  /** Filter state the cue calls for. */
+  filters: 'on' | 'off'
+}
+
+/** Default cues (common practice of eclipse guides). Offsets are stored per trip; labels are built per site. */
+export const CUE_DEFINITIONS: readonly CueDefinition[] = [
+  { key: 'partial-begins', anchor: 'c1', offsetSec: 0, for: ['total', 'annular', 'partial'], filters: 'on' },
+  { key: 'shadow', anchor: 'c2', offsetSec: -120, for: ['total'], filters: 'on' },
+  { key: 'beads', anchor: 'c2', offsetSec: -12, for: ['total'], filters: 'on' },
+  { key: 'filters-off', anchor: 'c2', offsetSec: 0, for: ['total'], filters: 'off' },
+  { key: 'chromosphere', anchor: 'c2', offsetSec: 5, for: ['total'], filters: 'off' },
+  { key: 'planets', anchor: 'max', offsetSec: 0, for: ['total'], filters: 'off' },
+  { key: 'filters-on', anchor: 'c3', offsetSec: -10, for: ['total'], filters: 'on' },
+  { key: 'annularity', anchor: 'c2', offsetSec: 0, for: ['annular'], filters: 'on' },
+  { key: 'annularity-ends', anchor: 'c3', offsetSec: 0, for: ['annular'], filters: 'on' },
+  { key: 'maximum', anchor: 'max', offsetSec: 0, for: ['annular', 'partial'], filters: 'on' },
+  { key: 'partial-ends', anchor: 'c4', offsetSec: 0, for: ['total', 'annular', 'partial'], filters: 'on' },
+]
+export const CUE_KEYS = CUE_DEFINITIONS.map((c) => c.key)
+
+/** The least margins: 2 σ after C2 and before C3, and 5 s more before C3. */
+export const MIN_MARGIN_SIGMAS = 2
+export const MIN_MARGIN_END_SEC = 5
+/** A window shorter than this gets no filters-off cue. */
+export const MIN_WINDOW_SEC = 5
+export const TOO_SHORT_NOTICE = 'Totality here is too short to remove filters safely; keep them on.'
+
+export interface CueContact {
+  /** Clock instant, ms since the Unix epoch (UTC). */
+  utcMs: number
+  /** Stated one-sigma uncertainty, seconds. */
+  uncertaintySec: number
+  /** Where on the Sun the contact happens, in words (C2/C3). */
+  direction?: string
+}
+
+export interface CueInput {
+  kind: LocalKind
+  contacts: Partial<Record<CueAnchor, CueContact>>
+  /** Offsets a guide or organiser set, seconds from the anchor, by cue key. */
+  offsets?: Record<string, number>
+  margins?: { sigmas?: number; endSec?: number }
+  /** Where the shadow comes from at this site, in words ("the west-southwest"). */
+  shadowFrom?: string
+  /** Bright planets above the horizon at maximum. */
+  planets?: Array<{ name: string; altitudeDeg: number; azimuthDeg: number }>
+}
+
+export interface PlannedCue {
+  key: string
+  anchor: CueAnchor
+  /** The offset in force after the rule, seconds from the anchor. */
+  offsetSec: number
+  utcMs: number
+  label: string
+  filters: 'on' | 'off'
+  /** Why the rule moved the cue from the time asked for, if it did. */
+  adjusted?: string
+}
+
+export interface CuePlan {
+  kind: LocalKind
+  cues: PlannedCue[]
+  /** The filters-off window, or null when there is none (annular, partial, or too short). */
+  window: { startMs: number; endMs: number } | null
+  /** Said plainly on the timetable when a total site has no window. */
+  notice: string | null
+  margins: { sigmas: number; endSec: number }
+}
+
+const COMPASS16 = ['north', 'north-northeast', 'northeast', 'east-northeast', 'east', 'east-southeast', 'southeast', 'south-southeast',
+  'south', 'south-southwest', 'southwest', 'west-southwest', 'west', 'west-northwest', 'northwest', 'north-northwest']
+const COMPASS_SHORT = ['N', 'NNE', 'NE', 'ENE', 'E', 'ESE', 'SE', 'SSE', 'S', 'SSW', 'SW', 'WSW', 'W', 'WNW', 'NW', 'NNW']
+const sector = (deg: number) => Math.round((((deg % 360) + 360) % 360) / 22.5) % 16
+/** A bearing in words: 250° → "west-southwest". */
+export const compassWords = (deg: number) => COMPASS16[sector(deg)]!
+/** A bearing as a 16-point abbreviation: 250° → "WSW". */
+export const compassShort = (deg: number) => COMPASS_SHORT[sector(deg)]!
+
+/** Margins in force: never below the minimum, whatever was stored. */
+export function effectiveMargins(m?: { sigmas?: number; endSec?: number }) {
+  return {
+    sigmas: Math.max(MIN_MARGIN_SIGMAS, m?.sigmas ?? MIN_MARGIN_SIGMAS),
+    endSec: Math.max(MIN_MARGIN_END_SEC, m?.endSec ?? MIN_MARGIN_END_SEC),
+  }
+}
+
+/** The filters-off window at a site, or null. */
+export function filtersOffWindow(input: Pick<CueInput, 'kind' | 'contacts' | 'margins'>): { startMs: number; endMs: number } | null {
+  const { c2, c3 } = input.contacts
+  if (input.kind !== 'total' || !c2 || !c3) return null
+  const m = effectiveMargins(input.margins)
+  const startMs = c2.utcMs + m.sigmas * c2.uncertaintySec * 1000
+  const endMs = c3.utcMs - (m.sigmas * c3.uncertaintySec + m.endSec) * 1000
+  return endMs - startMs >= MIN_WINDOW_SEC * 1000 ? { startMs, endMs } : null
+}
+
+function labelFor(key: string, input: CueInput, atMs: number): string {
+  const { contacts } = input
+  switch (key) {
+    case 'partial-begins': return 'Partial phase begins — eclipse viewers on'
+    case 'shadow': return `The shadow approaches from the ${input.shadowFrom ?? 'horizon'}: watch that part of the sky, and look for shadow bands on light ground`
+    case 'beads': return `Baily's beads — keep filters ON until the last bead has gone${contacts.c2?.direction ? `; the last light is ${contacts.c2.direction}` : ''}`
+    case 'filters-off': return 'Totality — filters off now, the bright surface is fully covered'
+    case 'chromosphere': return 'Chromosphere and prominences at the Moon\'s edge, then the corona'
+    case 'planets': {
+      const p = input.planets ?? []
+      return p.length ? `Look for ${p.map((x) => `${x.name} ${Math.round(x.altitudeDeg)}° up in the ${compassShort(x.azimuthDeg)}`).join(', ')}` : 'Look around the horizon: no bright planet is up, but the brightest stars may show'
+    }
+    case 'filters-on': {
+      const left = contacts.c3 ? Math.max(0, Math.round((contacts.c3.utcMs - atMs) / 1000)) : 0
+      return `Filters back ON — totality ends in ${left} s${contacts.c3?.direction ? `; the diamond ring appears ${contacts.c3.direction}` : ''}`
+    }
+    case 'annularity': return 'Annularity begins — the ring of sunlight; filters stay ON throughout'
+    case 'annularity-ends': return 'Annularity ends — filters stay ON'
+    case 'maximum': return 'Maximum eclipse — filters stay ON'
+    case 'partial-ends': return 'Partial phase ends'
+    default: return key
+  }
+}
+
+const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v))
+const fmtOffset = (anchor: CueAnchor, sec: number) => `${anchor.toUpperCase()} ${sec >= 0 ? '+' : '−'} ${Math.abs(sec).toFixed(1)} s`
+
+/** Plans the cues at one site under the rule. */
+export function planCues(input: CueInput): CuePlan {
+  const margins = effectiveMargins(input.margins)
+  const window = filtersOffWindow(input)
+  const offsets = input.offsets ?? {}
+  const defs = CUE_DEFINITIONS.filter((d) => d.for.includes(input.kind) && input.contacts[d.anchor])
+  const asked = (d: CueDefinition) => input.contacts[d.anchor]!.utcMs + (offsets[d.key] ?? d.offsetSec) * 1000
+  const cues: PlannedCue[] = []
+  const push = (d: CueDefinition, utcMs: number, adjusted?: string) => {
+    const anchorMs = input.contacts[d.anchor]!.utcMs
+    cues.push({ key: d.key, anchor: d.anchor, offsetSec: Math.round((utcMs - anchorMs) / 100) / 10, utcMs, label: labelFor(d.key, input, utcMs), filters: d.filters, ...(adjusted ? { adjusted } : {}) })
+  }
+  const offKey = (k: string) => k === 'filters-off' || k === 'filters-on' || defs.find((d) => d.key === k)?.filters === 'off'
+  for (const d of defs) if (!offKey(d.key)) push(d, asked(d))
+  let notice: string | null = null
+  if (input.kind === 'total') {
+    const offDef = defs.find((d) => d.key === 'filters-off')
+    const onDef = defs.find((d) => d.key === 'filters-on')
+    if (!window || !offDef || !onDef) {
+      notice = TOO_SHORT_NOTICE
+      // No filters-off cue at all: the group keeps filters on through the short totality.
+      const c2 = input.contacts.c2
+      if (c2) cues.push({ key: 'keep-filters-on', anchor: 'c2', offsetSec: 0, utcMs: c2.utcMs, label: `${TOO_SHORT_NOTICE} Watch the diamond ring through your filter.`, filters: 'on' })
+    } else {
+      // The defaults are placed, and edits kept, inside the window; anything outside moves to its safe side.
+      const why = (a: number, b: number) => (Math.abs(a - b) > 50 ? 'moved inside the safe window for filters off' : undefined)
+      const offAsk = asked(offDef)
+      const offAt = clamp(offAsk, window.startMs, window.endMs)
+      const onAsk = asked(onDef)
+      const onAt = clamp(onAsk, offAt, window.endMs)
+      push(offDef, offAt, offsets[offDef.key] === undefined ? undefined : why(offAsk, offAt))
+      for (const d of defs) {
+        if (d.filters !== 'off' || d.key === 'filters-off') continue
+        const a = asked(d)
+        const at = clamp(a, offAt, onAt)
+        push(d, at, offsets[d.key] === undefined ? undefined : why(a, at))
+      }
+      push(onDef, onAt, offsets[onDef.key] === undefined ? undefined : why(onAsk, onAt))
+    }
+  }
+  // Sorted by time; at equal times, filters-off cues after filters-on ones (never off before on).
+  cues.sort((a, b) => a.utcMs - b.utcMs || (a.filters === b.filters ? 0 : a.filters === 'on' ? -1 : 1))
+  return { kind: input.kind, cues, window, notice, margins }
+}
+
+/**
+ * Checks offsets a guide wants to save against the rule at one site. Returns one message per cue
+ * that would fall outside the window (or put filters back on before they come off), naming the cue
+ * and the range allowed; an empty list when the edit is safe here.
+ */
+export function cueOffsetProblems(input: CueInput, siteName: string): Array<{ key: string; message: string }> {
+  const window = filtersOffWindow(input)
+  if (!window) return []
+  const offsets = input.offsets ?? {}
+  const problems: Array<{ key: string; message: string }> = []
+  const defs = CUE_DEFINITIONS.filter((d) => d.for.includes(input.kind) && input.contacts[d.anchor])
+  const at = (d: CueDefinition) => input.contacts[d.anchor]!.utcMs + (offsets[d.key] ?? d.offsetSec) * 1000
+  const range = (d: CueDefinition, lo: number, hi: number) => {
+    const a = input.contacts[d.anchor]!.utcMs
+    return `${fmtOffset(d.anchor, (lo - a) / 1000)} to ${fmtOffset(d.anchor, (hi - a) / 1000)}`
+  }
+  const offDef = defs.find((d) => d.key === 'filters-off')
+  const onDef = defs.find((d) => d.key === 'filters-on')
+  for (const d of defs) {
+    if (d.filters !== 'off' || offsets[d.key] === undefined) continue
+    const t = at(d)
+    if (t < window.startMs || t > window.endMs) {
+      problems.push({ key: d.key, message: `"${d.key}" calls for filters off but at ${fmtOffset(d.anchor, offsets[d.key]!)} it falls outside the safe window at ${siteName}; allowed: ${range(d, window.startMs, window.endMs)}` })
+    }
+  }
+  if (onDef && offsets[onDef.key] !== undefined) {
+    const t = at(onDef)
+    const lo = offDef ? Math.max(window.startMs, Math.min(at(offDef), window.endMs)) : window.startMs
+    if (t > window.endMs || t < lo) {
+      problems.push({ key: onDef.key, message: `"filters-on" at ${fmtOffset('c3', offsets[onDef.key]!)} would leave filters off outside the safe window at ${siteName}; allowed: ${range(onDef, lo, window.endMs)}` })
+    }
+  }
+  return problems
+}
+
+/** The phase words for a plan, re-exported for convenience. */
+export { phaseWords }
