@@ -31,7 +31,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationM} m · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
     doc.moveDown(0.4)
     doc.font('ws-semi').fontSize(11).fillColor(INK)
-      .text(`${s.words.eclipseName}${s.words.central ? ` — ${s.words.central}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'}` : ''} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`)
+      .text(`${s.words.eclipseName}${s.words.central ? ` — ${s.words.central}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'}` : ''} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`, { width: headW })
 
     // Contacts table
     let y = doc.y + 8
