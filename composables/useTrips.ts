@@ -1,5 +1,6 @@
 import type { Ref } from 'vue'
 import type { tripDetail } from '~~/server/services/trips'
+import type { bookingView } from '~~/server/services/bookings'
 
 /** The trip page's eclipse block, as the server builds it. */
 export type TripEclipse = Awaited<ReturnType<typeof tripDetail>>['eclipse']
@@ -12,14 +13,8 @@ export interface TripView {
   site: { id: number; name: string; lat: number; lon: number; elevationM: number }
   eclipse?: TripEclipse
 }
-export interface BookingView {
-  id: number; tripId: number; trip: { id: number; title: string; eclipseId: string; startDate: string; balanceDueDate: string }
-  seats: number; status: 'held' | 'confirmed' | 'cancelled' | 'expired'; holdExpiresAt: string | null
-  priceMinor: number; depositMinor: number; paidMinor: number; refundedMinor: number; dueMinor: number; balanceMinor: number; currency: string
-  refundPctToday: number; cancelReason: string | null
-  receipts: Array<{ id: number; kind: string; amountMinor: number; currency: string; paidAt: string | null; reference: string | null; demo: boolean }>
-  refunds: Array<{ id: number; amountMinor: number; status: string; reason: string; createdAt: string; reference: string | null }>
-}
+/** A booking as GET /api/bookings/{id} returns it (types from the service itself). */
+export type BookingView = Awaited<ReturnType<typeof bookingView>>
 
 export function useTrips() {
   return useFetch<{ data: TripView[] }>('/api/trips', { key: 'trips' })

@@ -16,6 +16,8 @@ const WEBHOOK_URL = process.env.STRIPE_FAKE_WEBHOOK_URL || 'http://127.0.0.1:300
 
 const db = { customers: new Map(), sessions: new Map(), intents: new Map(), refunds: new Map(), events: [], idem: new Map() }
 let paused = false
+/** Refund creations still to fail on purpose (set through /_fake/refunds/fail). */
+let failRefunds = 0
 const pending = [] // events waiting for delivery while paused or failing
 
 const id = (prefix) => `${prefix}_${randomBytes(12).toString('hex')}`
@@ -170,6 +172,8 @@ const server = createServer(async (req, res) => {
         if (req.method === 'GET') return list(res, [...db.intents.values()], url.searchParams)
       }
       if (resource === 'refunds' && req.method === 'POST' && !rid) {
+        // Failures injected through /_fake/refunds/fail, so tests can watch a refund fail, then succeed on retry.
+        if (failRefunds > 0) { failRefunds--; return reply(400, { error: { type: 'invalid_request_error', code: 'refund_failed', message: 'The refund failed (injected by the local fake)' } }) }
         const pi = db.intents.get(form.payment_intent)
         if (!pi) return error(res, 400, `No such payment_intent: '${form.payment_intent}'`)
         const amount = form.amount ? Number(form.amount) : pi.amount_received - pi.amount_refunded
@@ -181,6 +185,10 @@ const server = createServer(async (req, res) => {
         return reply(200, r)
       }
       if (resource === 'refunds' && req.method === 'GET' && rid) return db.refunds.has(rid) ? send(res, 200, db.refunds.get(rid)) : error(res, 404, `No such refund: '${rid}'`)
+      if (resource === 'refunds' && req.method === 'GET') {
+        const pi = url.searchParams.get('payment_intent')
+        return list(res, [...db.refunds.values()].filter((r) => !pi || r.payment_intent === pi), url.searchParams)
+      }
       if (resource === 'events') {
         if (rid) { const e = db.events.find((x) => x.id === rid); return e ? send(res, 200, e) : error(res, 404, `No such event: '${rid}'`) }
         return list(res, db.events, url.searchParams)
@@ -233,6 +241,13 @@ const server = createServer(async (req, res) => {
         if (!e) return error(res, 404, 'No such event')
         await deliver(e)
         return send(res, 200, { ok: true })
+      }
+      if (seg[1] === 'refunds' && seg[2] === 'fail' && req.method === 'POST') { failRefunds = Number(form.count ?? 1); return send(res, 200, { failRefunds }) }
+      // What the fake holds for a booking: received − refunded over its payment intents (by metadata).
+      if (seg[1] === 'holdings') {
+        const bookingId = url.searchParams.get('bookingId')
+        const mine = [...db.intents.values()].filter((pi) => pi.metadata?.bookingId === bookingId)
+        return send(res, 200, { bookingId, intents: mine.length, netMinor: mine.reduce((s, pi) => s + pi.amount_received - pi.amount_refunded, 0) })
       }
       if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused })
       if (seg[1] === 'health') return send(res, 200, { ok: true })

@@ -12,6 +12,8 @@ export interface UsersTable {
   role: Role
   /** UTC ISO 8601. */
   created_at: ColumnType<string, string | undefined, never>
+  /** When the owner of the address confirmed it (UTC ISO); null until then: such accounts cannot hold seats. */
+  email_confirmed_at: ColumnType<string | null, string | null | undefined, string | null>
 }
 
 export interface AuditLogTable {
@@ -179,6 +181,8 @@ export interface PaymentsTable {
   demo: Auto<number>
   created_at: Created
   completed_at: string | null
+  /** Why a checkout ended without payment (expired, superseded, unknown to Stripe), or null. */
+  note: ColumnType<string | null, string | null | undefined, string | null>
 }
 
 export interface RefundsTable {
@@ -193,6 +197,14 @@ export interface RefundsTable {
   error: string | null
   created_by: number | null
   created_at: Created
+  /** Durable job: how often Stripe was asked, when to ask next, when the organiser was told it keeps failing. */
+  attempts: Auto<number>
+  next_attempt_at: ColumnType<string | null, string | null | undefined, string | null>
+  organiser_notified_at: ColumnType<string | null, string | null | undefined, string | null>
+  /** When Stripe reported the refund succeeded. */
+  completed_at: ColumnType<string | null, string | null | undefined, string | null>
+  /** 1 when it returns a stray payment (money that never counted towards the booking). */
+  stray: Auto<number>
 }
 
 export interface WaitlistTable {
@@ -249,6 +261,13 @@ export interface Database {
   stripe_customers: { user_id: number; customer_id: string }
   waitlist: WaitlistTable
   outbox: OutboxTable
+  email_confirmations: { token_hash: string; user_id: number; expires_at: string; used_at: ColumnType<string | null, string | null | undefined, string | null> }
+  reconciliation_items: {
+    id: Generated<number>; run_at: string; booking_id: number | null; payment_id: number | null
+    /** 'difference' (ledger ≠ Stripe), 'unknown-session', 'error'. */
+    kind: string
+    ledger_net_minor: number | null; stripe_net_minor: number | null; detail: string
+  }
 }
 
 export type User = Selectable<UsersTable>

@@ -1,7 +1,9 @@
-import { randomBytes } from 'node:crypto'
-import type { Kysely } from 'kysely'
+import { createHash, randomBytes } from 'node:crypto'
+import type { Kysely, Transaction } from 'kysely'
 import type { Database, Role, User } from '../database/schema'
 import { audit } from './audit'
+import { confirmEmailMail } from './mailTemplates'
+import { enqueueMail } from './outbox'
 
 /** Sign-in throttling: failures inside the window, per e-mail and per IP. Successful sign-ins clear the e-mail's count. */
 export const THROTTLE = { windowMin: 15, perEmail: 5, perIp: 30 }
@@ -38,15 +40,46 @@ export async function recordSuccess(db: Kysely<Database>, user: User, ip: string
 
 export class EmailTakenError extends Error {}
 
+/**
+ * Creates an account. A self-registered one starts unconfirmed and gets a confirmation e-mail in the
+ * same transaction; one an organiser invites counts as confirmed (the organiser vouches for the address).
+ */
 export async function createUser(db: Kysely<Database>, input: { name: string; email: string; passwordHash: string; role: Role },
-  actorId: number | null, ip: string | null, action: 'sign_up' | 'invite'): Promise<User> {
+  actorId: number | null, ip: string | null, action: 'sign_up' | 'invite', appUrl?: string): Promise<User> {
   return db.transaction().execute(async (trx) => {
     const exists = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst()
     if (exists) throw new EmailTakenError('That e-mail address already has an account')
     const user = await trx.insertInto('users').values({
       name: input.name, email: input.email, password_hash: input.passwordHash, role: input.role,
+      email_confirmed_at: action === 'invite' ? new Date().toISOString() : null,
     }).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action, actorUserId: actorId ?? user.id, subjectUserId: user.id, ip, detail: { role: input.role } })
+    if (action === 'sign_up' && appUrl) await sendEmailConfirmation(trx, user, appUrl)
+    return user
+  })
+}
+
+/** Confirmation links last two days; the token is stored only as its SHA-256. */
+const CONFIRMATION_HOURS = 48
+const tokenHash = (token: string) => createHash('sha256').update(token).digest('hex')
+
+export async function sendEmailConfirmation(trx: Transaction<Database> | Kysely<Database>, user: Pick<User, 'id' | 'name' | 'email'>, appUrl: string) {
+  const token = randomBytes(24).toString('base64url')
+  await trx.insertInto('email_confirmations').values({ token_hash: tokenHash(token), user_id: user.id, expires_at: new Date(Date.now() + CONFIRMATION_HOURS * 3600_000).toISOString() }).execute()
+  await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${token}`, hours: CONFIRMATION_HOURS }) })
+}
+
+export class InvalidTokenError extends Error {}
+
+/** Confirms the address behind a link's token (once, before it expires). */
+export async function confirmEmail(db: Kysely<Database>, token: string): Promise<User> {
+  return db.transaction().execute(async (trx) => {
+    const row = await trx.selectFrom('email_confirmations').selectAll().where('token_hash', '=', tokenHash(token)).executeTakeFirst()
+    if (!row || row.used_at || row.expires_at < new Date().toISOString()) throw new InvalidTokenError('This link is not valid any more: sign in and ask for a new one')
+    const now = new Date().toISOString()
+    await trx.updateTable('email_confirmations').set({ used_at: now }).where('token_hash', '=', row.token_hash).execute()
+    const user = await trx.updateTable('users').set({ email_confirmed_at: now }).where('id', '=', row.user_id).returningAll().executeTakeFirstOrThrow()
+    await audit(trx, { action: 'email_confirmed', actorUserId: user.id, subjectUserId: user.id })
     return user
   })
 }

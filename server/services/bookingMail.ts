@@ -1,6 +1,6 @@
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '../database/schema'
-import { dueOf } from './bookings'
+import { dueOf } from './dues'
 import * as T from './mailTemplates'
 import { enqueueMail } from './outbox'
 

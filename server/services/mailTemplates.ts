@@ -96,3 +96,18 @@ export const WHAT_TO_BRING = [
   'A red torch for the early start',
   'Your booking reference and passport',
 ]
+
+export function confirmEmailMail(d: { name: string; url: string; hours: number }): Mail {
+  return frame('Confirm your e-mail address',
+    p(`Hello ${esc(d.name)},`) + p('Confirm that this address is yours, so that you can hold seats on eclipse trips:') + button(d.url, 'Confirm my address')
+      + p(`The link works once, for ${d.hours} hours. If you did not sign up for Umbrafield, ignore this message.`),
+    `Hello ${d.name},\n\nConfirm that this address is yours, so that you can hold seats on eclipse trips:\n${d.url}\n\nThe link works once, for ${d.hours} hours. If you did not sign up for Umbrafield, ignore this message.`)
+}
+
+export function refundStuckMail(d: { tripTitle: string; bookingId: number; amountMinor: number; currency: string; attempts: number; error: string; url: string }): Mail {
+  const what = `A refund of ${formatMoney(d.amountMinor, d.currency)} on booking #${d.bookingId} (${d.tripTitle}) has failed ${d.attempts} times`
+  return frame(`Refund keeps failing: booking #${d.bookingId}`,
+    p(`${esc(what)}. Stripe said: <em>${esc(d.error)}</em>.`) + p('Umbrafield keeps retrying with growing pauses; the traveller has not been told it is done. Check the card and the payment in Stripe, or contact the traveller.') + button(d.url, 'Open the bookings'),
+    `${what}. Stripe said: ${d.error}.\n\nUmbrafield keeps retrying with growing pauses; the traveller has not been told it is done. Check the card and the payment in Stripe, or contact the traveller.\n${d.url}`,
+    'Sent by Umbrafield to the trip\'s organiser.')
+}

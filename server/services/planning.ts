@@ -157,9 +157,20 @@ export async function updateSite(db: Kysely<Database>, id: number, patch: SitePa
   await db.updateTable('sites').set({ ...v, updated_at: new Date().toISOString() } as never).where('id', '=', id).execute()
 }
 
+/** A site that a trip uses cannot be deleted: the trip would lose its timetable. */
+export class SiteInUseError extends Error {
+  constructor(public tripTitle: string) { super(`This site is used by the trip "${tripTitle}"; change the trip's sites first`) }
+}
+
 export async function deleteSite(db: Kysely<Database>, id: number): Promise<void> {
-  const r = await db.deleteFrom('sites').where('id', '=', id).executeTakeFirst()
-  if (!r.numDeletedRows) throw new NotFoundError('No such site')
+  await db.transaction().execute(async (trx) => {
+    const used = await trx.selectFrom('trips').select('title').where('primary_site_id', '=', id)
+      .union(trx.selectFrom('trips').innerJoin('trip_backup_sites', 'trip_backup_sites.trip_id', 'trips.id').select('trips.title').where('trip_backup_sites.site_id', '=', id))
+      .executeTakeFirst()
+    if (used) throw new SiteInUseError(used.title)
+    const r = await trx.deleteFrom('sites').where('id', '=', id).executeTakeFirst()
+    if (!r.numDeletedRows) throw new NotFoundError('No such site')
+  })
 }
 
 export async function siteWithMetrics(db: Kysely<Database>, id: number): Promise<SiteOut> {

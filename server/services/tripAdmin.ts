@@ -1,7 +1,7 @@
 import type { Kysely } from 'kysely'
 import Papa from 'papaparse'
 import type { Database, User } from '../database/schema'
-import { dueOf } from './bookings'
+import { dueOf } from './dues'
 import { NotFoundError } from './planning'
 import { getTripRow, isTripGuide, seatUse } from './trips'
 

@@ -3,7 +3,7 @@ import type { Role, User } from '../database/schema'
 import type { PublicUser } from '#shared/schemas/auth'
 
 export function toPublicUser(u: User): PublicUser {
-  return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at }
+  return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
 }
 
 /**

@@ -1,6 +1,7 @@
-import { BookingStateError, SoldOutError } from '../services/bookings'
+import { EmailUnconfirmedError, HoldExistsError, SoldOutError, WaitlistExistsError } from '../services/bookings'
+import { BookingStateError, RefundLimitError } from '../services/money'
 import { UnknownEclipseError } from '../services/eclipses'
-import { NotFoundError } from '../services/planning'
+import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
 
@@ -9,10 +10,15 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof UnknownEclipseError) return createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
   if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
   if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
+  if (e instanceof SiteInUseError) return createError({ statusCode: 409, statusMessage: 'Site in use', message: e.message, data: { code: 'site_in_use', trip: e.tripTitle } })
   if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })
   if (e instanceof SoldOutError) {
     return createError({ statusCode: 409, statusMessage: 'Sold out', message: e.message, data: { code: e.available === 0 ? 'sold_out' : 'not_enough_seats', available: e.available, waitlist: true } })
   }
+  if (e instanceof HoldExistsError) return createError({ statusCode: 409, statusMessage: 'Hold exists', message: e.message, data: { code: 'hold_exists', bookingId: e.bookingId, seats: e.seats } })
+  if (e instanceof WaitlistExistsError) return createError({ statusCode: 409, statusMessage: 'Already waiting', message: e.message, data: { code: 'waitlist_exists' } })
+  if (e instanceof EmailUnconfirmedError) return createError({ statusCode: 403, statusMessage: 'E-mail not confirmed', message: e.message, data: { code: 'email_unconfirmed' } })
+  if (e instanceof RefundLimitError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { amountMinor: e.message } } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   return null
 }

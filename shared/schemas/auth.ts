@@ -35,6 +35,8 @@ export const AccountPatch = z.object({
 
 export const IdParams = z.object({ id: z.coerce.number().int().positive() })
 
+export const VerifyEmailBody = z.object({ token: z.string({ error: 'The link has no token' }).min(10, 'The link has no token').max(200) })
+
 /** What a signed-in user may see of themselves and others. */
 export interface PublicUser {
   id: number
@@ -42,6 +44,8 @@ export interface PublicUser {
   name: string
   role: RoleName
   createdAt: string
+  /** Whether the owner confirmed the address (needed to hold seats). */
+  emailConfirmed: boolean
 }
 
 /** Permission rules shared by client (to hide buttons) and server (to decide). */

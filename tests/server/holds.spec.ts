@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, useApp } from './app'
+import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
 
-// Holds of 3 seconds so that lapsing can be watched.
-await useApp({ NUXT_HOLD_MINUTES: '0.05' })
+// Holds of 3 seconds so that lapsing can be watched; at most 3 hold requests per account in 10 minutes.
+await useApp({ NUXT_HOLD_MINUTES: '0.05', UMBRAFIELD_HOLD_LIMIT: '3' })
 
 describe('lapsed holds', () => {
   it('a declined card leaves the hold to lapse, and the seats return', async () => {
@@ -15,7 +15,11 @@ describe('lapsed holds', () => {
     const trav = await signIn(TRAVELLER)
     const hold = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
     expect(hold.status).toBe(201)
-    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })).body.code).toBe('sold_out')
+    // One hold per traveller per trip: a second one is refused with the hold to change instead.
+    const second = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    expect(second.status).toBe(409)
+    expect(second.body).toMatchObject({ code: 'hold_exists', bookingId: hold.body.id, seats: 2 })
+    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER2) })).body.code).toBe('sold_out')
     const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
     const r = await (await fetch(`${STRIPE_FAKE}/_fake/checkout/sessions/${c.body.url.split('/pay/')[1]}/complete`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ outcome: 'declined' }) })).json()
     expect(r.ok).toBe(false)
@@ -25,5 +29,12 @@ describe('lapsed holds', () => {
     expect(again.status).toBe(201)
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('expired')
     expect((await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })).status).toBe(409)
+    // The change-instead path: the active hold changes its seat count.
+    const changed = await api(`/api/bookings/${again.body.id}`, { method: 'PATCH', body: { seats: 1 }, cookie: trav })
+    expect(changed.body).toMatchObject({ id: again.body.id, seats: 1 })
+    // Hold requests are rate-limited per account: three requests passed, the fourth does not.
+    const limited = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    expect(limited.status).toBe(429)
+    expect(limited.headers.get('retry-after')).toMatch(/^\d+$/)
   })
 })

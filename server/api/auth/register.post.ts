@@ -3,10 +3,11 @@ import { createUser, EmailTakenError } from '../../services/accounts'
 
 export default defineEventHandler(async (event) => {
   const body = await readBodyAs(event, RegisterBody)
+  rateLimit(event, `sign-up:${clientIp(event)}`, Number(process.env.UMBRAFIELD_SIGNUP_LIMIT || 10), 3600_000)
   try {
     const user = await createUser(useDb(), {
       name: body.name, email: body.email, passwordHash: await hashPassword(body.password), role: 'traveller',
-    }, null, clientIp(event), 'sign_up')
+    }, null, clientIp(event), 'sign_up', useRuntimeConfig(event).public.appUrl)
     await setUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, loggedInAt: new Date().toISOString() })
     setResponseStatus(event, 201)
     return toPublicUser(user)

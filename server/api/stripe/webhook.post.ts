@@ -1,5 +1,5 @@
 import type Stripe from 'stripe'
-import { handleStripeEvent } from '../../services/bookings'
+import { handleStripeEvent } from '../../services/money'
 
 /** Stripe webhooks, verified with the signing secret; replays are idempotent. */
 export default defineEventHandler(async (event) => {

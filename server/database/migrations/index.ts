@@ -6,6 +6,7 @@ import * as m0004 from './0004_climatology'
 import * as m0005 from './0005_trips'
 import * as m0006 from './0006_outbox'
 import * as m0007 from './0007_filter_margins'
+import * as m0008 from './0008_money'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -16,4 +17,5 @@ export const migrations: Record<string, Migration> = {
   '0005_trips': m0005,
   '0006_outbox': m0006,
   '0007_filter_margins': m0007,
+  '0008_money': m0008,
 }

@@ -1,5 +1,5 @@
 import { IdParams } from '#shared/schemas/auth'
-import { startCheckout } from '../../../services/bookings'
+import { startCheckout } from '../../../services/money'
 
 /** Starts Stripe Checkout for what is due now (deposit, then balance); returns the hosted page URL. */
 export default defineEventHandler(async (event) => {
