@@ -76,8 +76,12 @@ function list(res, items, query) {
   send(res, 200, { object: 'list', data: data.slice(0, limit), has_more: data.length > limit, url: '' })
 }
 
-function completeSession(session, outcome) {
-  if (session.status !== 'open') return { ok: session.payment_status === 'paid', session }
+/**
+ * Pays (or declines) a session. Like Stripe, an expired or completed session cannot be paid; the
+ * control endpoint's `force` simulates a payment already in flight when the session was expired.
+ */
+function completeSession(session, outcome, force = false) {
+  if (session.status !== 'open' && !(force && session.status === 'expired')) return { ok: session.payment_status === 'paid', session }
   if (outcome === 'declined') {
     session.last_error = 'Your card was declined.'
     emit('checkout.session.async_payment_failed', session)
@@ -226,7 +230,7 @@ const server = createServer(async (req, res) => {
       if (seg[1] === 'checkout' && seg[2] === 'sessions' && seg[4] === 'complete' && req.method === 'POST') {
         const s = db.sessions.get(seg[3])
         if (!s) return error(res, 404, 'No such session')
-        const r = completeSession(s, form.outcome === 'declined' ? 'declined' : 'succeeded')
+        const r = completeSession(s, form.outcome === 'declined' ? 'declined' : 'succeeded', form.force === true)
         return send(res, 200, { ok: r.ok, session: r.session })
       }
       if (seg[1] === 'webhooks' && seg[2] === 'pause') { paused = true; return send(res, 200, { paused }) }

@@ -88,7 +88,7 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
 }
 
 /** Changes the seat count of the caller's active hold (seats re-checked, deposit and price follow). */
-export async function changeHoldSeats(db: Kysely<Database>, user: User, bookingId: number, seats: number, cfg: BookingConfig) {
+export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | null, user: User, bookingId: number, seats: number, cfg: BookingConfig) {
   return db.transaction().execute(async (trx) => {
     const b = await trx.selectFrom('bookings').selectAll().where('id', '=', bookingId).where('user_id', '=', user.id).executeTakeFirst()
     if (!b) throw new NotFoundError('No such booking')
@@ -104,7 +104,7 @@ export async function changeHoldSeats(db: Kysely<Database>, user: User, bookingI
     return { id: b.id, status: 'held' as const, seats }
   }).then(async (r) => {
     // Any checkout opened for the old amount is expired: its amount is wrong now.
-    await expireOpenCheckouts(db, null, bookingId, 'superseded: the seat count changed')
+    await expireOpenCheckouts(db, stripe, bookingId, 'superseded: the seat count changed')
     return r
   })
 }

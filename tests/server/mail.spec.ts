@@ -124,3 +124,30 @@ describe('itinerary and booking e-mail', () => {
     expect((await api(`/api/outbox/${list.body.data[0].id}/retry`, { method: 'POST', cookie: org })).status).toBe(409) // only failed ones
   })
 })
+
+describe('confirmed e-mail addresses', () => {
+  it('a new account cannot hold seats until its owner follows the link in the confirmation e-mail', async () => {
+    const email = `new-traveller-${Date.now()}@umbrafield.test`
+    const reg = await api('/api/auth/register', { method: 'POST', body: { name: 'New Traveller', email, password: 'a-long-password-1' } })
+    expect(reg.status).toBe(201)
+    expect(reg.body.emailConfirmed).toBe(false)
+    const cookie = reg.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    const trips = await api('/api/trips')
+    const luxor = trips.body.data.find((t: { title: string }) => t.title.startsWith('Luxor'))
+    const refused = await api(`/api/trips/${luxor.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie })
+    expect(refused.status).toBe(403)
+    expect(refused.body.data.code).toBe('email_unconfirmed')
+    expect(await waitFor(() => inbox.some((m) => m.subject === 'Confirm your e-mail address' && m.text?.includes(email) === false && (m.to && 'value' in m.to ? m.to.value[0]!.address === email : false)))).toBe(true)
+    const mail = inbox.find((m) => m.to && 'value' in m.to && m.to.value[0]!.address === email)!
+    const link = mail.text!.match(/(http\S+\/verify-email\?token=([\w-]+))/)!
+    expect(link[1]!.startsWith(`http://127.0.0.1:`)).toBe(true)
+    const bad = await api('/api/auth/verify-email', { method: 'POST', body: { token: 'x'.repeat(20) } })
+    expect(bad.status).toBe(400)
+    expect(bad.body.data.fields.token).toMatch(/not valid/)
+    expect((await api('/api/auth/verify-email', { method: 'POST', body: { token: link[2] } })).status).toBe(200)
+    // Once only
+    expect((await api('/api/auth/verify-email', { method: 'POST', body: { token: link[2] } })).status).toBe(400)
+    expect((await api('/api/me', { cookie })).body.emailConfirmed).toBe(true)
+    expect((await api(`/api/trips/${luxor.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie })).status).toBe(201)
+  })
+})

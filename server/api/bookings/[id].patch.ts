@@ -7,5 +7,5 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
   const { seats } = await readBodyAs(event, BookingCreate)
-  return withServiceErrors(() => changeHoldSeats(useDb(), user, id, seats, bookingConfig()))
+  return withServiceErrors(() => changeHoldSeats(useDb(), useRuntimeConfig().stripe.secretKey ? useStripe() : null, user, id, seats, bookingConfig()))
 })

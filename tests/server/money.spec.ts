@@ -1,0 +1,205 @@
+import Stripe from 'stripe'
+import { describe, expect, it } from 'vitest'
+import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
+
+// Money against the local Stripe fake. Holds last 6 s here so that a lapse can be watched; refunds
+// are retried after 0.5 s, 1 s, 2 s… (UMBRAFIELD_REFUND_RETRY_MS) by housekeeping every second.
+await useApp({ NUXT_HOLD_MINUTES: '0.1', UMBRAFIELD_RECONCILE_AFTER_MS: '1500' })
+
+const WEBHOOK_SECRET = 'whsec_umbrafield_local_fake'
+const fake = (path: string, body?: unknown) => fetch(`${STRIPE_FAKE}${path}`, body === undefined ? {} : { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) }).then((r) => r.json())
+
+async function newTrip(org: string, over: Record<string, unknown> = {}) {
+  const r = await api('/api/trips', { method: 'POST', cookie: org, body: {
+    workspaceId: 1, primarySiteId: 4, title: 'Money trip', startDate: '2027-07-31', endDate: '2027-08-03', seats: 5, priceMinor: 200_000, depositMinor: 40_000,
+    currency: 'eur', balanceDueDate: '2027-05-01', cancellationTiers: [{ until: '2099-01-01', refundPct: 100 }],
+    meetingPoint: { name: 'Hotel', lat: 25.69, lon: 32.64, time: '2027-08-02T03:30:00Z' }, ...over,
+  } })
+  expect(r.status).toBe(201)
+  await api(`/api/trips/${r.body.id}/publish`, { method: 'POST', cookie: org })
+  return r.body.id as number
+}
+
+async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms = 10_000): Promise<T> {
+  const end = Date.now() + ms
+  for (;;) {
+    const v = await fn()
+    if (ok(v) || Date.now() > end) return v
+    await new Promise((r) => setTimeout(r, 150))
+  }
+}
+
+const sessionOf = (url: string) => url.split('/pay/')[1]!
+
+/** Every money test ends here: the booking's ledger equals what the fake holds for it, and nothing is still owed back. */
+async function expectLedgerMatchesStripe(bookingId: number, cookie: string, wantNetMinor: number) {
+  const b = await until(() => api(`/api/bookings/${bookingId}`, { cookie }), (r) => r.body.ledger.refundingMinor === 0)
+  const held = await fake(`/_fake/holdings?bookingId=${bookingId}`)
+  expect(b.body.ledger.refundingMinor).toBe(0)
+  expect(b.body.ledger.netMinor).toBe(held.netMinor)
+  expect(b.body.ledger.netMinor).toBe(wantNetMinor)
+  return b.body
+}
+
+describe('money that adds up', () => {
+  it('two checkouts, both paid: exactly the deposit stays; the second payment is refunded and shows in the ledger', async () => {
+    const trav = await signIn(TRAVELLER)
+    const tripId = await newTrip(await signIn(ORGANISER))
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
+    const a = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    // A second tab gets the same open session, not a second one.
+    const again = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    expect(again.body.url).toBe(a.body.url)
+    // The traveller changes the seat count: the old session is expired and a new one made…
+    await api(`/api/bookings/${hold.body.id}`, { method: 'PATCH', body: { seats: 1 }, cookie: trav })
+    const b = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    expect(b.body.url).not.toBe(a.body.url)
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(a.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(false) // expired: cannot be paid
+    // …but a payment already in flight on the old one still lands, after the new one is paid.
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(b.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(a.body.url)}/complete`, { outcome: 'succeeded', force: true })).ok).toBe(true)
+    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 40_000)
+    expect(view.paidMinor).toBe(40_000)
+    expect(view.status).toBe('confirmed')
+    const refunds = view.ledger.entries.filter((e: { type: string }) => e.type === 'refund')
+    expect(refunds).toHaveLength(1)
+    expect(refunds[0]).toMatchObject({ amountMinor: -80_000, status: 'succeeded' })
+    expect(refunds[0].kind).toMatch(/automatic: a second payment of the deposit/)
+  })
+
+  it('a booking cancelled with its payment page open, then paid, ends with net 0', async () => {
+    const trav = await signIn(TRAVELLER)
+    const tripId = await newTrip(await signIn(ORGANISER))
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    expect((await api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: trav })).body.status).toBe('cancelled')
+    // Cancelling expired the session: it cannot be paid any more…
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(false)
+    // …and a payment that was already in flight is refunded in full.
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded', force: true })).ok).toBe(true)
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.ledger.entries.length === 2)
+    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 0)
+    expect(view.status).toBe('cancelled')
+    expect(view.paidMinor).toBe(0)
+  })
+
+  it('a payment after the hold lapsed and the seats were resold is refunded, and the other traveller keeps the seat', async () => {
+    const org = await signIn(ORGANISER)
+    const tripId = await newTrip(org, { seats: 1 })
+    const late = await signIn(TRAVELLER)
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: late })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: late })
+    await new Promise((r) => setTimeout(r, 6500))
+    const other = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER2) })
+    expect(other.status).toBe(201)
+    expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
+    const view = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: late }), (r) => r.body.status === 'cancelled')
+    expect(view.body.cancelReason).toMatch(/hold lapsed/)
+    await expectLedgerMatchesStripe(hold.body.id, late, 0)
+    const table = await api(`/api/trips/${tripId}/bookings`, { cookie: org })
+    expect(table.body.data.find((b: { id: number }) => b.id === other.body.id).status).toBe('held')
+  })
+
+  it('a refund Stripe rejects is not counted, is retried with backoff, and counts once it succeeds; the organiser hears when it keeps failing', async () => {
+    const trav = await signIn(TRAVELLER)
+    const org = await signIn(ORGANISER)
+    const tripId = await newTrip(org)
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    await fake('/_fake/refunds/fail', { count: 3 })
+    const r = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000, reason: 'coach cancelled' }, cookie: org })
+    expect(r.body).toEqual({ refundMinor: 10_000, sent: false })
+    const failed = await api(`/api/bookings/${hold.body.id}`, { cookie: trav })
+    expect(failed.body.refundedMinor).toBe(0)
+    expect(failed.body.ledger.entries.find((e: { type: string }) => e.type === 'refund').status).toBe('failed')
+    const outbox = async () => (await api('/api/outbox', { cookie: org })).body.data as Array<{ kind: string; subject: string }>
+    expect((await outbox()).some((m) => m.kind === 'refund-issued' && m.subject.includes('100.00'))).toBe(false)
+    // Housekeeping retries: two more failures (the organiser is told after the third), then success.
+    const done = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (x) => x.body.refundedMinor === 10_000, 15_000)
+    expect(done.body.refundedMinor).toBe(10_000)
+    expect((await outbox()).some((m) => m.kind === 'refund-stuck')).toBe(true)
+    expect((await outbox()).some((m) => m.kind === 'refund-issued')).toBe(true)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 30_000)
+  })
+
+  it('a cancel and a manual refund racing never refund more than was paid', async () => {
+    const trav = await signIn(TRAVELLER)
+    const org = await signIn(ORGANISER)
+    const tripId = await newTrip(org)
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    const [cancel, manual] = await Promise.all([
+      api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: trav }),
+      api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 30_000, reason: 'goodwill' }, cookie: org }),
+    ])
+    expect(cancel.status).toBe(200)
+    const refunded = (cancel.body.refundMinor as number) + (manual.status === 200 ? 30_000 : 0)
+    expect(refunded).toBe(40_000)
+    if (manual.status !== 200) expect(manual.status).toBe(400)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 0)
+  })
+
+  it('webhooks with a stale timestamp, no signature or the wrong secret get 400 and change nothing', async () => {
+    const trav = await signIn(TRAVELLER)
+    const tripId = await newTrip(await signIn(ORGANISER))
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    const before = (await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body
+    const payload = JSON.stringify({
+      id: `evt_forged_${hold.body.id}`, object: 'event', type: 'checkout.session.completed',
+      data: { object: { id: sessionOf(c.body.url), payment_status: 'paid', payment_intent: 'pi_forged', metadata: { bookingId: String(hold.body.id), paymentId: String(c.body.paymentId) } } },
+    })
+    const headers = (sig?: string) => ({ 'content-type': 'application/json', ...(sig ? { 'stripe-signature': sig } : {}) })
+    const stale = Stripe.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET, timestamp: Math.floor(Date.now() / 1000) - 3600 })
+    const wrong = Stripe.webhooks.generateTestHeaderString({ payload, secret: 'whsec_not_ours' })
+    for (const sig of [stale, undefined, wrong]) {
+      const r = await api('/api/stripe/webhook', { method: 'POST', raw: payload, headers: headers(sig) })
+      expect(r.status).toBe(400)
+    }
+    const after = (await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body
+    expect(after.status).toBe('held')
+    expect(after.paidMinor).toBe(before.paidMinor)
+    expect(after.ledger).toEqual(before.ledger)
+    expect(after.payments).toEqual(before.payments)
+    // The same event, correctly signed, is accepted: the check is the signature, not the body.
+    const good = Stripe.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET })
+    expect((await api('/api/stripe/webhook', { method: 'POST', raw: payload, headers: headers(good) })).status).toBe(200)
+  })
+
+  it('checkout.session.expired marks the payment ended, and the next checkout is a new session', async () => {
+    const trav = await signIn(TRAVELLER)
+    const tripId = await newTrip(await signIn(ORGANISER))
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    // Expire it at the fake, as Stripe does after its time: the fake sends checkout.session.expired.
+    await fetch(`${STRIPE_FAKE}/v1/checkout/sessions/${sessionOf(c.body.url)}/expire`, { method: 'POST', headers: { authorization: 'Bearer sk_test_umbrafield' } })
+    const ended = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.payments[0]?.status === 'failed')
+    expect(ended.body.payments[0].status).toBe('failed')
+    const next = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+    expect(next.body.url).not.toBe(c.body.url)
+    await fake(`/_fake/checkout/sessions/${sessionOf(next.body.url)}/complete`, { outcome: 'succeeded' })
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    await expectLedgerMatchesStripe(hold.body.id, trav, 40_000)
+  })
+
+  it('the reconciliation page lists no differences after all of the above; deleting a site a trip uses is a 409 naming the trip', async () => {
+    const org = await signIn(ORGANISER)
+    const run = await api('/api/reconciliation/run', { method: 'POST', cookie: org })
+    expect(run.status).toBe(200)
+    expect(run.body.checked).toBeGreaterThanOrEqual(6)
+    const report = await api('/api/reconciliation', { cookie: org })
+    expect(report.body.data.filter((d: { kind: string }) => d.kind === 'difference')).toEqual([])
+    expect(report.body.failingRefunds).toEqual([])
+    expect((await api('/api/reconciliation', { cookie: await signIn(TRAVELLER) })).status).toBe(403)
+    const del = await api('/api/sites/4', { method: 'DELETE', cookie: org })
+    expect(del.status).toBe(409)
+    expect(del.body.data.code).toBe('site_in_use')
+    expect(del.body.data.trip).toMatch(/Luxor totality week|Money trip/)
+    expect(del.body.message).toContain(del.body.data.trip)
+  })
+})
