@@ -87,5 +87,8 @@ ${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
     guide@umbrafield.test       guide
     traveller@umbrafield.test   traveller
 
+  New accounts confirm their address through the link in the mail inbox above before they can hold seats.
+  Demo trips: Luxor (total eclipse, 2027-08-02) and Punta del Este (annular eclipse, 2027-02-06).
+
   Press Ctrl-C to stop.
 `)
