@@ -34,6 +34,8 @@ export default defineNuxtConfig({
     // Hold length for unpaid bookings and waitlist offers
     // NUXT_MAIL_SMTP_HOST/_PORT/_SECURE/_USER/_PASS, NUXT_MAIL_FROM — SMTP for the outbox worker
     mail: { smtpHost: '', smtpPort: '', smtpSecure: 'false', smtpUser: '', smtpPass: '', from: 'Umbrafield <no-reply@umbrafield.test>' },
+    // Sealed session cookie: a week from the last renewal (renewed at most hourly while in use).
+    session: { maxAge: 7 * 24 * 3600 },
     holdMinutes: 15,
     offerHours: 24,
     // NUXT_PUBLIC_APP_URL

@@ -36,7 +36,7 @@ test('sign-in form shows field errors and the generic failure message', async ({
   await expect(page.getByRole('alert')).toHaveText('E-mail or password is not right')
 })
 
-test('an organiser promotes a traveller on the People page, and the traveller sees it without signing in again', async ({ page, browser }) => {
+test('an organiser promotes a traveller on the People page; the traveller\'s session ends, and signing in again shows the new role', async ({ page, browser }) => {
   const travellerCtx = await browser.newContext()
   const traveller = await travellerCtx.newPage()
   await signInAs(traveller, 'traveller2@umbrafield.test')
@@ -47,7 +47,10 @@ test('an organiser promotes a traveller on the People page, and the traveller se
   await page.getByLabel('Role for Samir Okafor (demo traveller)').selectOption('guide')
   await expect(page.getByRole('status')).toHaveText('Role updated.')
 
-  await traveller.reload()
+  // A role change ends the person's sessions: the next page knows them no more.
+  await traveller.goto('/account')
+  await expect(traveller).toHaveURL(/\/login/)
+  await signInAs(traveller, 'traveller2@umbrafield.test')
   await expect(traveller.getByTestId('role-chip')).toHaveText('guide')
   await travellerCtx.close()
 })

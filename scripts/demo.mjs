@@ -63,6 +63,8 @@ for (const f of fakes) {
 start('app', process.execPath, ['.output/server/index.mjs'], {
   ...fakeEnv,
   PORT, NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+  // The demo's accounts share a published password: it listens on this machine only.
+  NITRO_HOST: process.env.HOST || '127.0.0.1',
 })
 
 // 4. Wait until the app answers, then say where everything is.

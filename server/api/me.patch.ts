@@ -15,9 +15,13 @@ export default defineEventHandler(async (event) => {
   }
   if (Object.keys(set).length === 0) return toPublicUser(user)
   const updated = await db.transaction().execute(async (trx) => {
-    const u = await trx.updateTable('users').set(set).where('id', '=', user.id).returningAll().executeTakeFirstOrThrow()
+    // A new password ends every other session; this one continues under the new version.
+    const u = await trx.updateTable('users').set(set)
+      .$if(!!set.password_hash, (q) => q.set((eb) => ({ session_version: eb('session_version', '+', 1) })))
+      .where('id', '=', user.id).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action: 'account_update', actorUserId: user.id, subjectUserId: user.id, ip: clientIp(event), detail: { fields: Object.keys(set) } })
     return u
   })
+  if (set.password_hash) await startSession(event, updated)
   return toPublicUser(updated)
 })

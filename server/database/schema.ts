@@ -14,6 +14,8 @@ export interface UsersTable {
   created_at: ColumnType<string, string | undefined, never>
   /** When the owner of the address confirmed it (UTC ISO); null until then: such accounts cannot hold seats. */
   email_confirmed_at: ColumnType<string | null, string | null | undefined, string | null>
+  /** Raised to end every session at once (sign-out, password or role change, "sign out everywhere"). */
+  session_version: Auto<number>
 }
 
 export interface AuditLogTable {

@@ -94,7 +94,8 @@ export async function changeRole(db: Kysely<Database>, actor: User, userId: numb
         .where('role', '=', 'organiser').execute() as [{ n: number }]
       if (n <= 1) throw new Error('The last organiser cannot be demoted')
     }
-    const updated = await trx.updateTable('users').set({ role }).where('id', '=', userId).returningAll().executeTakeFirstOrThrow()
+    // A role change ends the user's sessions: the next request signs in afresh under the new role.
+    const updated = await trx.updateTable('users').set((eb) => ({ role, session_version: eb('session_version', '+', 1) })).where('id', '=', userId).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action: 'role_change', actorUserId: actor.id, subjectUserId: userId, ip, detail: { from: target.role, to: role } })
     return updated
   })

@@ -75,5 +75,5 @@ export function toCsv(sites: SiteOut[]): string {
     zone: s.metrics.zone, sun_altitude_deg: s.metrics.sunAltitudeDeg, sun_azimuth_deg: s.metrics.sunAzimuthDeg,
     cloud_pct: s.metrics.cloudPct, p_clear: s.metrics.pClear, expected_sec: s.metrics.expectedSec, cloud_source: s.metrics.cloudSource,
     road_access: s.roadAccess, capacity: s.capacity, crosses_border: s.crossesBorder, notes: s.notes,
-  })))
+  })), { escapeFormulae: true }) // a name like "=HYPERLINK(…)" stays text in a spreadsheet
 }

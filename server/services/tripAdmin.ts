@@ -32,7 +32,7 @@ export async function tripBookingsCsv(db: Kysely<Database>, tripId: number): Pro
   return Papa.unparse(t.data.map((b) => ({
     booking_id: b.id, name: b.name, email: b.email, seats: b.seats, status: b.status, currency: b.currency,
     price_minor: b.priceMinor, paid_minor: b.paidMinor, refunded_minor: b.refundedMinor, due_now_minor: b.dueMinor, balance_minor: b.balanceMinor, created_at: b.createdAt,
-  })))
+  })), { escapeFormulae: true }) // traveller names like "=HYPERLINK(…)" stay text in a spreadsheet
 }
 
 /** Names and seats of confirmed participants, for organisers and the trip's own guides. */

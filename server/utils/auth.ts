@@ -6,20 +6,41 @@ export function toPublicUser(u: User): PublicUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
 }
 
+/** Sessions last a week from their last renewal; they are renewed (sliding) at most once an hour. */
+export const SESSION_MAX_AGE_SEC = 7 * 24 * 3600
+const RENEW_AFTER_MS = 3600_000
+
+/** Starts (or renews) the caller's session under the user's current session version. */
+export async function startSession(event: H3Event, user: User) {
+  const now = new Date().toISOString()
+  await replaceUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, version: user.session_version, loggedInAt: now, renewedAt: now })
+}
+
 /**
  * The signed-in user, read from the database on every call, so a role change or a deleted
- * account takes effect on the next request. 401 when signed out.
+ * account takes effect on the next request. A cookie issued under an older session version (the
+ * user signed out, changed password or role, or signed out everywhere) is refused. 401 when signed out.
  */
 export async function requireUser(event: H3Event): Promise<User> {
   const session = await getUserSession(event)
   const id = (session.user as { id?: number } | undefined)?.id
   if (!id) throw createError({ statusCode: 401, statusMessage: 'Sign in first' })
   const user = await useDb().selectFrom('users').selectAll().where('id', '=', id).executeTakeFirst()
-  if (!user) {
+  const version = (session as { version?: number }).version
+  if (!user || version !== user.session_version) {
     await clearUserSession(event)
-    throw createError({ statusCode: 401, statusMessage: 'Sign in first' })
+    throw createError({ statusCode: 401, statusMessage: 'Sign in first', message: 'Your session has ended: sign in again' })
+  }
+  const renewedAt = Date.parse((session as { renewedAt?: string }).renewedAt ?? '')
+  if (!(renewedAt > Date.now() - RENEW_AFTER_MS)) {
+    await replaceUserSession(event, { ...session, renewedAt: new Date().toISOString() })
   }
   return user
+}
+
+/** Ends every session of a user (this one included) by raising the session version. */
+export async function endAllSessions(userId: number) {
+  await useDb().updateTable('users').set((eb) => ({ session_version: eb('session_version', '+', 1) })).where('id', '=', userId).execute()
 }
 
 /** requireUser, then 403 unless the user's current role is one of `roles`. */
@@ -29,6 +50,17 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Use
   return user
 }
 
+/**
+ * Whether the request came through a proxy we trust (NUXT_TRUSTED_PROXIES: comma-separated
+ * addresses, e.g. "127.0.0.1"): only then are X-Forwarded-For/-Proto/-Host believed.
+ */
+export function trustedProxy(event: H3Event): boolean {
+  const list = (process.env.NUXT_TRUSTED_PROXIES ?? '').split(',').map((s) => s.trim()).filter(Boolean)
+  if (!list.length) return false
+  const peer = (event.node.req.socket.remoteAddress ?? '').replace(/^::ffff:/, '')
+  return list.includes(peer)
+}
+
 export function clientIp(event: H3Event): string {
-  return getRequestIP(event, { xForwardedFor: false }) ?? 'unknown'
+  return getRequestIP(event, { xForwardedFor: trustedProxy(event) }) ?? 'unknown'
 }

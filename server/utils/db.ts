@@ -13,6 +13,17 @@ export function useDb(): Kysely<Database> {
 }
 
 /**
+ * The demo's accounts share a published password: seeding them is refused unless the app's public
+ * URL is local, or the operator says so explicitly (NUXT_ALLOW_DEMO_SEED=yes, e.g. a staging host).
+ */
+export function assertDemoSeedAllowed(appUrl: string) {
+  const local = /^https?:\/\/(localhost|127\.0\.0\.1|\[::1\])(:\d+)?(\/|$)/.test(appUrl)
+  if (!local && process.env.NUXT_ALLOW_DEMO_SEED !== 'yes') {
+    throw new Error(`refusing to seed demo data (published passwords) for ${appUrl}: it is not a local address. Set NUXT_ALLOW_DEMO_SEED=yes to do it anyway.`)
+  }
+}
+
+/**
  * Resolves once migrations (and the demo seed, when NUXT_SEED=demo) have run. Started by a
  * Nitro plugin at boot and awaited by the first middleware, because Nitro does not await
  * async plugins before serving.
@@ -22,7 +33,10 @@ export function dbReady(): Promise<void> {
     ready = (async () => {
       const db = useDb()
       await migrateToLatest(db)
-      if (useRuntimeConfig().seed === 'demo') await seedDemo(db)
+      if (useRuntimeConfig().seed === 'demo') {
+        assertDemoSeedAllowed(useRuntimeConfig().public.appUrl)
+        await seedDemo(db)
+      }
     })()
     ready.catch((e) => {
       console.error('[umbrafield] database start-up failed:', (e as Error).message)

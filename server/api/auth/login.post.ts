@@ -23,6 +23,6 @@ export default defineEventHandler(async (event) => {
     throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: GENERIC })
   }
   await recordSuccess(db, user, ip)
-  await setUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, loggedInAt: new Date().toISOString() })
+  await startSession(event, user)
   return toPublicUser(user)
 })

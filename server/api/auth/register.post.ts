@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
     const user = await createUser(useDb(), {
       name: body.name, email: body.email, passwordHash: await hashPassword(body.password), role: 'traveller',
     }, null, clientIp(event), 'sign_up', useRuntimeConfig(event).public.appUrl)
-    await setUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, loggedInAt: new Date().toISOString() })
+    await startSession(event, user)
     setResponseStatus(event, 201)
     return toPublicUser(user)
   } catch (e) {

@@ -1,0 +1,33 @@
+import { readdirSync, rmSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import { backupDatabase } from '../database/connection'
+
+/**
+ * A rolling nightly backup: an online copy (VACUUM INTO) once a day into data/backups/ beside the
+ * database (NUXT_BACKUP_DIR to change it), keeping the newest seven (NUXT_BACKUP_KEEP).
+ * NUXT_BACKUPS=off turns it off (e.g. when the host backs up the volume itself).
+ */
+const DAY_MS = 24 * 3600_000
+export default defineNitroPlugin((nitro) => {
+  if (process.env.NUXT_BACKUPS === 'off') return
+  const dir = resolve(process.env.NUXT_BACKUP_DIR || join(dirname(resolve(useRuntimeConfig().dbPath)), 'backups'))
+  const keep = Number(process.env.NUXT_BACKUP_KEEP || 7)
+  const run = async () => {
+    try {
+      await dbReady()
+      const today = new Date().toISOString().slice(0, 10)
+      const existing = (() => { try { return readdirSync(dir).filter((f) => /^umbrafield-.*\.sqlite$/.test(f)).sort() } catch { return [] } })()
+      if (!existing.some((f) => f.startsWith(`umbrafield-${today}`))) {
+        await backupDatabase(useDb(), join(dir, `umbrafield-${new Date().toISOString().replace(/[:.]/g, '-')}.sqlite`))
+      }
+      const all = readdirSync(dir).filter((f) => /^umbrafield-.*\.sqlite$/.test(f)).sort()
+      for (const f of all.slice(0, Math.max(0, all.length - keep))) rmSync(join(dir, f), { force: true })
+    } catch (e) {
+      console.error('[umbrafield] nightly backup:', (e as Error).message)
+    }
+  }
+  void run()
+  const timer = setInterval(run, Number(process.env.NUXT_BACKUP_EVERY_MS || DAY_MS))
+  timer.unref()
+  nitro.hooks.hook('close', () => clearInterval(timer))
+})
