@@ -40,4 +40,6 @@ const failed = v.numFailedTests + (p.stats?.unexpected ?? 0)
 const skipped = (v.numPendingTests ?? 0) + (p.stats?.skipped ?? 0)
 console.log(`\nunit+server: ${v.numPassedTests} passed; browser: ${p.stats?.expected ?? 0} passed`)
 console.log(`${passed} passed, ${failed} failed, ${skipped} skipped`)
-process.exit(failed > 0 || passed === 0 ? 1 : 0)
+// A skipped test fails the run too: nothing may be quietly left out.
+if (skipped > 0) console.error(`✗ ${skipped} test(s) skipped`)
+process.exit(failed > 0 || passed === 0 || skipped > 0 ? 1 : 0)

@@ -273,5 +273,6 @@ export interface Database {
 }
 
 export type User = Selectable<UsersTable>
+export type SiteRow = Selectable<SitesTable>
 export type NewUser = Insertable<UsersTable>
 export type UserUpdate = Updateable<UsersTable>

@@ -3,9 +3,11 @@ import type { Kysely, Selectable } from 'kysely'
 import Papa from 'papaparse'
 import { pClearOf, sampleGrid, type Grid } from '../../shared/climate/grid'
 import { NO_CLIMATOLOGY, type SiteCloud } from '../../shared/schemas/sites'
-import type { Database, User } from '../database/schema'
+import type { Database, SiteRow, User } from '../database/schema'
 import { audit } from './audit'
-import type { CloudLookup, SiteRow } from './planning'
+
+/** The cloud figures for a site, from the workspace's climatology (or the manual override). */
+export type CloudLookup = (site: SiteRow) => SiteCloud
 
 /** Upload limit for climatology files. */
 export const MAX_CLIMATOLOGY_BYTES = 25 * 1024 * 1024

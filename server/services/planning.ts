@@ -1,16 +1,16 @@
 import { find as findZone } from 'geo-tz'
-import type { Kysely, Selectable } from 'kysely'
+import type { Kysely } from 'kysely'
 import type { BesselianElements } from '../../shared/eclipse/types'
 import { NO_CLIMATOLOGY, type SiteCloud, type SiteCreateInput, type SiteMetrics, type SiteOut, type SitePatchInput } from '../../shared/schemas/sites'
 import { localTime } from '../../shared/time/local'
-import type { Database, SitesTable, User } from '../database/schema'
+import type { Database, SiteRow, User } from '../database/schema'
 import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
 
-export type SiteRow = Selectable<SitesTable>
-export type CloudLookup = (site: SiteRow) => SiteCloud
+export type { SiteRow } from '../database/schema'
+export type { CloudLookup } from './climatology'
 export { NO_CLIMATOLOGY }
 export type { SiteCloud, SiteMetrics, SiteOut }
 
