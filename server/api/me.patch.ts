@@ -1,4 +1,5 @@
 import { AccountPatch } from '#shared/schemas/auth'
+import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../services/accounts'
 import { audit } from '../services/audit'
 
 export default defineEventHandler(async (event) => {
@@ -8,9 +9,22 @@ export default defineEventHandler(async (event) => {
   const set: { name?: string; password_hash?: string } = {}
   if (patch.name) set.name = patch.name
   if (patch.newPassword) {
+    // The current-password check is throttled like sign-in, keyed by the account.
+    const key = `password:${user.id}`
+    try {
+      await beginAttempt(db, key, clientIp(event))
+    } catch (e) {
+      if (e instanceof ThrottledError) {
+        setResponseHeader(event, 'Retry-After', e.retryAfterSec)
+        throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: `Too many failed attempts. Try again in ${e.retryAfterSec} s.` })
+      }
+      throw e
+    }
     if (!(await verifyPassword(user.password_hash, patch.currentPassword ?? ''))) {
+      await recordFailure(db, key, clientIp(event))
       throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'Current password is not right', data: { fields: { currentPassword: 'Current password is not right' } } })
     }
+    await recordSuccess(db, user, clientIp(event), key)
     set.password_hash = await hashPassword(patch.newPassword)
   }
   if (Object.keys(set).length === 0) return toPublicUser(user)

@@ -5,36 +5,53 @@ import { audit } from './audit'
 import { confirmEmailMail } from './mailTemplates'
 import { enqueueMail } from './outbox'
 
-/** Sign-in throttling: failures inside the window, per e-mail and per IP. Successful sign-ins clear the e-mail's count. */
-export const THROTTLE = { windowMin: 15, perEmail: 5, perIp: 30 }
+/**
+ * Sign-in throttling by account and by address, with backoff rather than a lock: after the free
+ * failures inside the window, each further try must wait 2, 4, 8 … seconds (at most 15 minutes)
+ * after the last failure. The attempt is recorded before the password is checked, in the same
+ * transaction as the check, so concurrent guesses queue behind each other instead of all passing.
+ * A success clears the account's record. The same mechanism guards the current-password check.
+ */
+export const THROTTLE = { windowMin: 15, freeByKey: 5, freeByIp: 30, maxDelaySec: 900 }
 
 export class ThrottledError extends Error {
-  constructor(public retryAfterSec: number) { super('Too many failed sign-in attempts') }
+  constructor(public retryAfterSec: number) { super('Too many failed attempts') }
 }
 
-const windowStart = () => new Date(Date.now() - THROTTLE.windowMin * 60_000).toISOString()
+const delaySec = (failures: number, free: number) => (failures < free ? 0 : Math.min(THROTTLE.maxDelaySec, 2 ** (failures - free + 1)))
 
-export async function assertNotThrottled(db: Kysely<Database>, email: string, ip: string): Promise<void> {
-  const since = windowStart()
-  const [{ n: byEmail }] = await db.selectFrom('sign_in_failures').select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('email', '=', email).where('at', '>', since).execute() as [{ n: number }]
-  const [{ n: byIp }] = await db.selectFrom('sign_in_failures').select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('ip', '=', ip).where('at', '>', since).execute() as [{ n: number }]
-  if (byEmail >= THROTTLE.perEmail || byIp >= THROTTLE.perIp) throw new ThrottledError(THROTTLE.windowMin * 60)
-}
-
-export async function recordFailure(db: Kysely<Database>, email: string, ip: string): Promise<void> {
+/** Checks the backoff for `key` (an e-mail, or "password:<user id>") and `ip`, then records this attempt. */
+export async function beginAttempt(db: Kysely<Database>, key: string, ip: string): Promise<void> {
   await db.transaction().execute(async (trx) => {
-    await trx.insertInto('sign_in_failures').values({ email, ip, at: new Date().toISOString() }).execute()
-    await trx.deleteFrom('sign_in_failures').where('at', '<', new Date(Date.now() - 24 * 3600_000).toISOString()).execute()
-    await audit(trx, { action: 'sign_in_failed', ip, detail: { email } })
+    const now = Date.now()
+    const since = new Date(now - THROTTLE.windowMin * 60_000).toISOString()
+    const stats = async (col: 'email' | 'ip', value: string) => {
+      const r = await trx.selectFrom('sign_in_failures').select((eb) => [eb.fn.countAll<number>().as('n'), eb.fn.max('at').as('last')])
+        .where(col, '=', value).where('at', '>', since).executeTakeFirstOrThrow()
+      return { n: Number(r.n), last: r.last ? Date.parse(String(r.last)) : 0 }
+    }
+    const byKey = await stats('email', key)
+    const byIp = await stats('ip', ip)
+    const wait = Math.max(
+      delaySec(byKey.n, THROTTLE.freeByKey) * 1000 - (now - byKey.last),
+      delaySec(byIp.n, THROTTLE.freeByIp) * 1000 - (now - byIp.last),
+    )
+    if (wait > 0) throw new ThrottledError(Math.ceil(wait / 1000))
+    await trx.insertInto('sign_in_failures').values({ email: key, ip, at: new Date(now).toISOString() }).execute()
+    await trx.deleteFrom('sign_in_failures').where('at', '<', new Date(now - 24 * 3600_000).toISOString()).execute()
   })
 }
 
-export async function recordSuccess(db: Kysely<Database>, user: User, ip: string): Promise<void> {
+/** The attempt failed: it stays recorded; the audit log says so. */
+export async function recordFailure(db: Kysely<Database>, key: string, ip: string): Promise<void> {
+  await audit(db, { action: 'sign_in_failed', ip, detail: { email: key } })
+}
+
+/** The attempt succeeded: the key's record is cleared. */
+export async function recordSuccess(db: Kysely<Database>, user: User, ip: string, key = user.email): Promise<void> {
   await db.transaction().execute(async (trx) => {
-    await trx.deleteFrom('sign_in_failures').where('email', '=', user.email).execute()
-    await audit(trx, { action: 'sign_in', actorUserId: user.id, subjectUserId: user.id, ip })
+    await trx.deleteFrom('sign_in_failures').where('email', '=', key).execute()
+    if (key === user.email) await audit(trx, { action: 'sign_in', actorUserId: user.id, subjectUserId: user.id, ip })
   })
 }
 

@@ -36,15 +36,30 @@ export function listEclipses(q: { from?: number; to?: number; type?: string; upc
   })
 }
 
-/** Small in-memory cache for path and local results, keyed by element set, ΔT and the request. */
-const cache = new Map<string, unknown>()
-const CACHE_MAX = 500
+/**
+ * In-memory cache for path and local results, keyed by element set, ΔT and the request, bounded by
+ * size (about 64 MB of JSON), oldest first out.
+ */
+const cache = new Map<string, { v: unknown; bytes: number }>()
+const CACHE_MAX_BYTES = 64 * 1024 * 1024
+let cacheBytes = 0
 function cached<T>(key: string, make: () => T): T {
-  if (cache.has(key)) return cache.get(key) as T
+  const hit = cache.get(key)
+  if (hit) return hit.v as T
   const v = make()
-  if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!)
-  cache.set(key, v)
+  const bytes = JSON.stringify(v).length
+  while (cache.size && cacheBytes + bytes > CACHE_MAX_BYTES) {
+    const oldest = cache.keys().next().value!
+    cacheBytes -= cache.get(oldest)!.bytes
+    cache.delete(oldest)
+  }
+  cache.set(key, { v, bytes })
+  cacheBytes += bytes
   return v
+}
+function clearCache() {
+  cache.clear()
+  cacheBytes = 0
 }
 
 export async function eclipseDetail(db: Kysely<Database>, id: string) {
@@ -83,7 +98,7 @@ export async function importPublishedElements(db: Kysely<Database>, actor: User,
       eclipse_id: id, elements: JSON.stringify(input), source: input.source, created_by: actor.id,
     }).returning('id').executeTakeFirstOrThrow()
     await audit(trx, { action: 'elements_import', actorUserId: actor.id, detail: { eclipseId: id, source: input.source } })
-    cache.clear()
+    clearCache()
     return { id: r.id, greatest: row }
   })
 }
@@ -93,7 +108,7 @@ export async function removePublishedElements(db: Kysely<Database>, actor: User,
     await trx.deleteFrom('element_sets').where('eclipse_id', '=', id).execute()
     await audit(trx, { action: 'elements_remove', actorUserId: actor.id, detail: { eclipseId: id } })
   })
-  cache.clear()
+  clearCache()
 }
 
 export async function setDeltaTOverride(db: Kysely<Database>, actor: User, id: string, deltaTSec: number | null) {
@@ -104,5 +119,5 @@ export async function setDeltaTOverride(db: Kysely<Database>, actor: User, id: s
       .execute()
     await audit(trx, { action: 'delta_t_override', actorUserId: actor.id, detail: { eclipseId: id, deltaTSec } })
   })
-  cache.clear()
+  clearCache()
 }

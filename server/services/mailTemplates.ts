@@ -111,3 +111,10 @@ export function refundStuckMail(d: { tripTitle: string; bookingId: number; amoun
     `${what}. Stripe said: ${d.error}.\n\nUmbrafield keeps retrying with growing pauses; the traveller has not been told it is done. Check the card and the payment in Stripe, or contact the traveller.\n${d.url}`,
     'Sent by Umbrafield to the trip\'s organiser.')
 }
+
+export function accountExistsMail(d: { name: string; signInUrl: string }): Mail {
+  return frame('Someone tried to sign up with your address',
+    p(`Hello ${esc(d.name)},`) + p('Someone just tried to create an Umbrafield account with this e-mail address, which already has one. If it was you, sign in instead:') + button(d.signInUrl, 'Sign in')
+      + p('If it was not you, nothing has changed and you need do nothing.'),
+    `Hello ${d.name},\n\nSomeone just tried to create an Umbrafield account with this e-mail address, which already has one. If it was you, sign in instead:\n${d.signInUrl}\n\nIf it was not you, nothing has changed and you need do nothing.`)
+}

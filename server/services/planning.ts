@@ -56,8 +56,23 @@ export function siteOut(row: SiteRow, metrics: SiteMetrics): SiteOut {
 
 export class NotFoundError extends Error {}
 
-export async function listWorkspaces(db: Kysely<Database>) {
-  const rows = await db.selectFrom('workspaces').selectAll().orderBy('eclipse_id').orderBy('name').execute()
+/**
+ * Guides' reach: a guide sees the planning workspaces of the trips they guide, and nothing else;
+ * organisers see all. Someone else's workspace is a 404, like any row the caller may not see.
+ */
+const guidedWorkspaceIds = (db: Kysely<Database>, userId: number) =>
+  db.selectFrom('trips').innerJoin('trip_guides', 'trip_guides.trip_id', 'trips.id').select('trips.workspace_id').where('trip_guides.user_id', '=', userId)
+
+export async function assertWorkspaceAccess(db: Kysely<Database>, user: User, workspaceId: number): Promise<void> {
+  if (user.role === 'organiser') return
+  const mine = await guidedWorkspaceIds(db, user.id).where('trips.workspace_id', '=', workspaceId).executeTakeFirst()
+  if (!mine) throw new NotFoundError('No such planning workspace')
+}
+
+export async function listWorkspaces(db: Kysely<Database>, user: User) {
+  let q = db.selectFrom('workspaces').selectAll().orderBy('eclipse_id').orderBy('name')
+  if (user.role !== 'organiser') q = q.where('id', 'in', guidedWorkspaceIds(db, user.id))
+  const rows = await q.execute()
   return rows.map((w) => ({ id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at }))
 }
 

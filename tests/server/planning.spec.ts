@@ -23,6 +23,17 @@ describe('planning workspaces and sites', () => {
     expect(Object.keys(g.body.data[0])).toEqual(expect.arrayContaining(['id', 'eclipseId', 'name']))
   })
 
+  it('guides see only the workspaces of the trips they guide', async () => {
+    const org = await signIn(ORGANISER)
+    const inv = await api('/api/users', { method: 'POST', body: { name: 'Unassigned Guide', email: 'unassigned-guide@umbrafield.test', role: 'guide' }, cookie: org })
+    const other = await signIn('unassigned-guide@umbrafield.test', inv.body.temporaryPassword)
+    expect((await api('/api/workspaces', { cookie: other })).body.data).toEqual([])
+    for (const path of ['/api/workspaces/1', '/api/workspaces/1/sites', '/api/workspaces/1/export.csv', '/api/workspaces/1/cloud-layer']) {
+      expect((await api(path, { cookie: other })).status).toBe(404)
+      expect((await api(path, { cookie: await signIn(GUIDE) })).status).toBe(200)
+    }
+  })
+
   it('the demo workspace has six to ten sites with server-computed metrics', async () => {
     const r = await api('/api/workspaces/1/sites', { cookie: await signIn(GUIDE) })
     expect(r.status).toBe(200)

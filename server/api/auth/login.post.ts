@@ -1,23 +1,27 @@
 import { LoginBody } from '#shared/schemas/auth'
-import { assertNotThrottled, recordFailure, recordSuccess, ThrottledError } from '../../services/accounts'
+import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../../services/accounts'
 
 const GENERIC = 'E-mail or password is not right'
+
+/** A hash to check when the e-mail is unknown, so that unknown and known addresses take as long. */
+let dummy: Promise<string> | undefined
+const dummyHash = () => (dummy ??= hashPassword('no such account: the answer must take as long'))
 
 export default defineEventHandler(async (event) => {
   const { email, password } = await readBodyAs(event, LoginBody)
   const db = useDb()
   const ip = clientIp(event)
   try {
-    await assertNotThrottled(db, email, ip)
+    await beginAttempt(db, email, ip)
   } catch (e) {
     if (e instanceof ThrottledError) {
       setResponseHeader(event, 'Retry-After', e.retryAfterSec)
-      throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: 'Too many failed attempts. Try again in 15 minutes.' })
+      throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: `Too many failed attempts. Try again in ${e.retryAfterSec} s.` })
     }
     throw e
   }
   const user = await db.selectFrom('users').selectAll().where('email', '=', email).executeTakeFirst()
-  const ok = user ? await verifyPassword(user.password_hash, password) : false
+  const ok = user ? await verifyPassword(user.password_hash, password) : (await verifyPassword(await dummyHash(), password), false)
   if (!user || !ok) {
     await recordFailure(db, email, ip)
     throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: GENERIC })

@@ -1,20 +1,25 @@
 import { RegisterBody } from '#shared/schemas/auth'
 import { createUser, EmailTakenError } from '../../services/accounts'
+import { accountExistsMail } from '../../services/mailTemplates'
+import { enqueueMail } from '../../services/outbox'
 
+/**
+ * Sign-up answers the same whether or not the address already has an account, so nobody can learn
+ * who is registered: 202 and "check your inbox". A new account gets its confirmation link; an
+ * existing one's owner is told someone tried. Nobody is signed in here: the owner signs in next.
+ */
 export default defineEventHandler(async (event) => {
   const body = await readBodyAs(event, RegisterBody)
   rateLimit(event, `sign-up:${clientIp(event)}`, Number(process.env.UMBRAFIELD_SIGNUP_LIMIT || 10), 3600_000)
+  const appUrl = useRuntimeConfig(event).public.appUrl
+  const passwordHash = await hashPassword(body.password)
   try {
-    const user = await createUser(useDb(), {
-      name: body.name, email: body.email, passwordHash: await hashPassword(body.password), role: 'traveller',
-    }, null, clientIp(event), 'sign_up', useRuntimeConfig(event).public.appUrl)
-    await startSession(event, user)
-    setResponseStatus(event, 201)
-    return toPublicUser(user)
+    await createUser(useDb(), { name: body.name, email: body.email, passwordHash, role: 'traveller' }, null, clientIp(event), 'sign_up', appUrl)
   } catch (e) {
-    if (e instanceof EmailTakenError) {
-      throw createError({ statusCode: 409, statusMessage: 'Already registered', message: e.message, data: { fields: { email: e.message } } })
-    }
-    throw e
+    if (!(e instanceof EmailTakenError)) throw e
+    const owner = await useDb().selectFrom('users').select(['name', 'email']).where('email', '=', body.email).executeTakeFirstOrThrow()
+    await enqueueMail(useDb(), { kind: 'account-exists', to: { email: owner.email, name: owner.name }, ...accountExistsMail({ name: owner.name, signInUrl: `${appUrl}/login` }) })
   }
+  setResponseStatus(event, 202)
+  return { ok: true, message: `Check your inbox at ${body.email}: follow the link there to confirm your address, then sign in.` }
 })

@@ -1,7 +1,7 @@
 import { listWorkspaces } from '../../services/planning'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'organiser', 'guide')
-  const data = await listWorkspaces(useDb())
+  const user = await requireRole(event, 'organiser', 'guide')
+  const data = await listWorkspaces(useDb(), user)
   return { data, meta: { total: data.length } }
 })

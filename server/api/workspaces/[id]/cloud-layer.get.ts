@@ -1,8 +1,10 @@
 import { IdParams } from '#shared/schemas/auth'
 import { cloudLayer } from '../../../services/cloudLayer'
+import { assertWorkspaceAccess } from '../../../services/planning'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'organiser', 'guide')
+  const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
+  await withServiceErrors(() => assertWorkspaceAccess(useDb(), user, id))
   return withServiceErrors(async () => (await cloudLayer(useDb(), id)) ?? { none: true })
 })

@@ -1,9 +1,10 @@
 import { IdParams } from '#shared/schemas/auth'
-import { getWorkspace } from '../../../services/planning'
+import { getWorkspace, assertWorkspaceAccess } from '../../../services/planning'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'organiser', 'guide')
+  const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
+  await withServiceErrors(() => assertWorkspaceAccess(useDb(), user, id))
   const w = await withServiceErrors(() => getWorkspace(useDb(), id))
   return { id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at, climatologyId: w.climatology_id }
 })
