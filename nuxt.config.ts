@@ -4,7 +4,8 @@ export default defineNuxtConfig({
   srcDir: '.',
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  eslint: { config: { stylistic: false } },
   css: [
     '@fontsource/work-sans/400.css',
     '@fontsource/work-sans/500.css',

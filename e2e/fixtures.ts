@@ -2,11 +2,11 @@ import { test as base, expect, type Page } from '@playwright/test'
 import { E2E_NOW } from './clock'
 
 /** Every test fails if the page asks for anything that is not on this machine. */
-export const test = base.extend<{ outside: string[]; fixedClock: void }>({
+export const test = base.extend<{ outside: string[]; fixedClock: undefined }>({
   /** Every page runs on the fixed test date (e2e/clock.ts); time still flows from there. */
   fixedClock: [async ({ page }, use) => {
     await page.clock.install({ time: E2E_NOW })
-    await use()
+    await use(undefined)
   }, { auto: true }],
   outside: [async ({ context }, use) => {
     const outside: string[] = []

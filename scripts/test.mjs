@@ -1,4 +1,4 @@
-// npm test — everything: build, types, unit + server tests (vitest), browser tests (Playwright in Debian Chromium).
+// npm test — everything: build, lint, types, unit + server tests (vitest), browser tests (Playwright in Debian Chromium).
 // Installs Chromium with apt when it is missing and we are root. Never downloads a browser of its own.
 import { spawnSync } from 'node:child_process'
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs'
@@ -27,6 +27,7 @@ if (!existsSync(CHROMIUM)) {
 }
 
 run('build', 'npx', ['nuxt', 'build'])
+run('lint', 'npm', ['run', '--silent', 'lint'])
 run('types', 'npx', ['vue-tsc', '-b', '--noEmit'])
 const vitestJson = join(tmp, 'vitest.json')
 run('unit and server tests', 'npx', ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`])

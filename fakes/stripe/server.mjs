@@ -55,7 +55,7 @@ async function deliver(event, attempt = 0) {
     const r = await fetch(WEBHOOK_URL, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sign(payload) }, body: payload })
     if (r.status >= 300) throw new Error(`status ${r.status}`)
     event.delivered = true
-  } catch (e) {
+  } catch {
     // Like Stripe, retry with backoff (compressed: 0.5 s, 1 s, 2 s, … up to 8 tries).
     if (attempt < 8) setTimeout(() => deliver(event, attempt + 1), 500 * 2 ** attempt)
     else pending.push(event)

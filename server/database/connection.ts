@@ -38,7 +38,7 @@ export async function migrateToLatest(db: Kysely<Database>, set: Record<string, 
         await (trx as unknown as typeof raw).insertInto('schema_migrations').values({ name, applied_at: new Date().toISOString() }).execute()
       })
     } catch (e) {
-      throw new Error(`migration ${name} failed: ${e instanceof Error ? e.message : String(e)}`)
+      throw new Error(`migration ${name} failed: ${e instanceof Error ? e.message : String(e)}`, { cause: e })
     }
     ran.push(name)
   }

@@ -1,10 +1,9 @@
 import type { Kysely } from 'kysely'
-import type { BesselianElements } from '../../shared/eclipse/types'
+import type { BesselianElements, Site } from '../../shared/eclipse/types'
 import { PublishedElements, type PublishedElementsInput } from '../../shared/schemas/elements'
 import type { Database, User } from '../database/schema'
 import { catalogue, computedElementsFor, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
 import { localReport, pathReport, resolveTimeBasis, timeBasisOut } from '../eclipse/report'
-import type { Site } from '../../shared/eclipse/types'
 import { audit } from './audit'
 
 export class UnknownEclipseError extends Error {}

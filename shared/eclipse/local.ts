@@ -1,4 +1,4 @@
-import { DEG, RAD } from './constants'
+import { RAD } from './constants'
 import {
   deltaTHourAngleRad, elementsAt, observerAt, observerOf, refractionDeg, sunAltAz,
   type Observer, type ObserverState,

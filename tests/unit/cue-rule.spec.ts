@@ -13,7 +13,6 @@ import { phaseWords, safetyLines } from '../../shared/safety/text'
 // eclipses: total (2027-08-02, 2024-04-08), annular (2027-02-06, 2023-10-14) and hybrid (2023-04-20),
 // across, beyond and within a kilometre of the path limits, with random cue edits and margins.
 const ECLIPSES = ['2027-08-02', '2024-04-08', '2027-02-06', '2023-10-14', '2023-04-20'] as const
-const MARGINS = { filter_margin_sigmas: 2, filter_margin_end_sec: 5 }
 
 const offsetsArb = fc.dictionary(fc.constantFrom(...CUE_DEFINITIONS.map((c) => c.key)), fc.integer({ min: -1800, max: 1800 }), { maxKeys: 6 })
 /** Where across the path: anywhere, or within about a kilometre inside or outside a limit (half-widths are 50–150 km). */
