@@ -30,6 +30,9 @@ interface ParsedGrid {
 }
 
 const blob = (a?: Float32Array) => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : null)
+/** The most cells (rows × columns × months or bands) a climatology may have: about 100 MB of float32. */
+export const MAX_GRID_CELLS = 25_000_000
+
 const floats = (b: Buffer | null) => (b ? new Float32Array(b.buffer.slice(b.byteOffset, b.byteOffset + b.byteLength)) : undefined)
 
 function checkMonth(m: number, where: string): number {
@@ -71,6 +74,8 @@ export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedG
   if (bands !== 1 && bands !== 12) throw new ClimatologyError(`Expected 1 band (one month) or 12 bands (one per month), found ${bands}`)
   if (bands === 1 && month === undefined) throw new ClimatologyError('Choose the month this single-band file represents')
   if (bands === 1) checkMonth(month!, 'month')
+  // Capped before anything is decoded: a small compressed file can declare gigapixel bands.
+  if (width * height * bands > MAX_GRID_CELLS) throw new ClimatologyError(`The raster is too large: ${width} × ${height} × ${bands} cells; at most ${MAX_GRID_CELLS.toLocaleString('en')} (a 0.1° grid of the whole Earth for 12 months is far less)`)
   const nodata = image.getGDALNoData()
   const rasters = await image.readRasters({ interleave: false }) as unknown as ArrayLike<number>[]
   // Pixel-is-area: cell centres are half a pixel in from the tie point. Store rows south to north.
@@ -146,6 +151,11 @@ export function parseCsvGrid(text: string): ParsedGrid {
   }
   const la = axis(recs.map((r) => r.lat), 'latitude')
   const lo = axis(recs.map((r) => r.lon), 'longitude')
+  // Rows against cells before allocating: every month must be a complete grid, so a file whose
+  // axes span far more cells than it has rows (a "diagonal" of points) is ragged, and refused here.
+  const monthsInFile = new Set(recs.map((r) => r.month)).size
+  if (la.n * lo.n * monthsInFile > recs.length) throw new ClimatologyError(`Ragged grid: ${la.n} latitudes × ${lo.n} longitudes × ${monthsInFile} month(s) need ${la.n * lo.n * monthsInFile} rows, the file has ${recs.length}`)
+  if (la.n * lo.n * monthsInFile > MAX_GRID_CELLS) throw new ClimatologyError(`The grid is too large: at most ${MAX_GRID_CELLS.toLocaleString('en')} cells`)
   const months: ParsedGrid['months'] = new Map()
   const seen = new Map<number, Uint8Array>()
   for (const r of recs) {

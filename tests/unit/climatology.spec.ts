@@ -101,3 +101,15 @@ describe('CSV grid import', () => {
     expect(() => parseCsvGrid(csv)).toThrow(msg)
   })
 })
+
+describe('grid size caps', () => {
+  it('a "diagonal" CSV (distinct latitudes and longitudes on every row) is refused before any grid is allocated', async () => {
+    const { parseCsvGrid } = await import('../../server/services/climatology')
+    const rows = Array.from({ length: 2000 }, (_, i) => `${(-60 + i * 0.05).toFixed(2)},${(-100 + i * 0.1).toFixed(1)},8,50`)
+    const csv = `lat,lon,month,cloud_pct\n${rows.join('\n')}\n`
+    const before = process.memoryUsage().arrayBuffers
+    expect(() => parseCsvGrid(csv)).toThrow(/Ragged grid: 2000 latitudes × 2000 longitudes × 1 month\(s\) need 4000000 rows, the file has 2000/)
+    // Nothing like the 4 million cells (16 MB a layer) was allocated on the way.
+    expect(process.memoryUsage().arrayBuffers - before).toBeLessThan(8 * 1024 * 1024)
+  })
+})
