@@ -154,7 +154,8 @@ export function parseCsvGrid(text: string): ParsedGrid {
   // Rows against cells before allocating: every month must be a complete grid, so a file whose
   // axes span far more cells than it has rows (a "diagonal" of points) is ragged, and refused here.
   const monthsInFile = new Set(recs.map((r) => r.month)).size
-  if (la.n * lo.n * monthsInFile > recs.length) throw new ClimatologyError(`Ragged grid: ${la.n} latitudes × ${lo.n} longitudes × ${monthsInFile} month(s) need ${la.n * lo.n * monthsInFile} rows, the file has ${recs.length}`)
+  // (A few missing cells get the detailed message below; a file with fewer than half the rows it needs is refused at once.)
+  if (la.n * lo.n * monthsInFile > 2 * recs.length) throw new ClimatologyError(`Ragged grid: ${la.n} latitudes × ${lo.n} longitudes × ${monthsInFile} month(s) need ${la.n * lo.n * monthsInFile} rows, the file has ${recs.length}`)
   if (la.n * lo.n * monthsInFile > MAX_GRID_CELLS) throw new ClimatologyError(`The grid is too large: at most ${MAX_GRID_CELLS.toLocaleString('en')} cells`)
   const months: ParsedGrid['months'] = new Map()
   const seen = new Map<number, Uint8Array>()
