@@ -10,8 +10,10 @@ import { assertTimetableAccess, setCueOffsets } from '../../../services/timetabl
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
+  // Reach first: a guide not on this trip learns nothing about it, not even what a valid body is.
+  await withServiceErrors(() => assertTimetableAccess(useDb(), user, id))
   const { offsets, margins } = await readBodyAs(event, CueOffsetsBody)
   if (margins && user.role !== 'organiser') throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Only organisers set the safety margins' })
-  await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); await setCueOffsets(useDb(), user, id, offsets, margins) })
+  await withServiceErrors(() => setCueOffsets(useDb(), user, id, offsets, margins))
   return { ok: true, offsets, margins }
 })
