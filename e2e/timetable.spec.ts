@@ -44,3 +44,18 @@ test('recompute here uses the device location and is marked as differing from th
   await page.getByRole('button', { name: /Recompute here/ }).click()
   await expect(page.getByRole('status')).toContainText('These times differ from the planned site')
 })
+
+test('signing out on a shared device clears the countdown\'s offline copies', async ({ page }) => {
+  await signInAs(page, 'guide@umbrafield.test')
+  await page.goto('/trips/1/countdown/4')
+  await expect(page.getByTestId('last-sync')).toContainText('ready offline', { timeout: 15_000 })
+  const kept = () => page.evaluate(async () => ({
+    saved: Object.keys(localStorage).filter((k) => k.startsWith('umbrafield:countdown:')).length,
+    caches: (await caches.keys()).filter((n) => n.startsWith('umbrafield-')).length,
+  }))
+  expect(await kept()).toEqual({ saved: 1, caches: 1 })
+  await page.goto('/account')
+  await page.getByRole('button', { name: 'Sign out' }).click()
+  await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible()
+  expect(await kept()).toEqual({ saved: 0, caches: 0 })
+})

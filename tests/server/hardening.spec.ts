@@ -3,8 +3,9 @@ import { describe, expect, it } from 'vitest'
 import { url } from '@nuxt/test-utils/e2e'
 import { api, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
 
-// This suite's app trusts 127.0.0.1 as its proxy, so X-Forwarded-Proto can be tried.
-await useApp({ NUXT_TRUSTED_PROXIES: '127.0.0.1' })
+// This suite's app trusts 127.0.0.1 as its proxy, so X-Forwarded-Proto can be tried; the public
+// path route allows 3 requests a minute per address here.
+await useApp({ NUXT_TRUSTED_PROXIES: '127.0.0.1', UMBRAFIELD_PATH_LIMIT: '3' })
 
 /** A raw request, so that a chunked body of any size (no Content-Length) can be sent. */
 function raw(path: string, opts: { method: string; headers: Record<string, string>; chunks: Buffer[] }): Promise<{ status: number; body: string }> {
@@ -109,5 +110,26 @@ describe('safe exports', () => {
     const csv = await api(`/api/trips/${luxor.id}/bookings.csv`, { cookie: org })
     const line = csv.body.split(/\r?\n/).find((l: string) => l.includes('HYPERLINK'))
     expect(line).toContain(`"'=HYPERLINK(""http://evil.example"",""x"")"`)
+  })
+})
+
+describe('throttles on costly and sensitive routes', () => {
+  it('the public path route is rate-limited per address (X-Forwarded-For believed from the trusted proxy)', async () => {
+    const from = (ip: string) => ({ headers: { 'x-forwarded-for': ip } })
+    for (let i = 0; i < 3; i++) expect((await api('/api/eclipses/2027-08-02/path?step=900', from('203.0.113.7'))).status).toBe(200)
+    const limited = await api('/api/eclipses/2027-08-02/path?step=900', from('203.0.113.7'))
+    expect(limited.status).toBe(429)
+    expect(Number(limited.headers.get('retry-after'))).toBeGreaterThan(0)
+    // Another client address has its own allowance.
+    expect((await api('/api/eclipses/2027-08-02/path?step=900', from('203.0.113.8'))).status).toBe(200)
+  })
+
+  it('the current-password check backs off after five wrong guesses', async () => {
+    const org = await signIn(ORGANISER)
+    const inv = await api('/api/users', { method: 'POST', body: { name: 'Guessed', email: 'guessed@umbrafield.test', role: 'guide' }, cookie: org })
+    const cookie = await signIn('guessed@umbrafield.test', inv.body.temporaryPassword)
+    const statuses: number[] = []
+    for (let i = 0; i < 6; i++) statuses.push((await api('/api/me', { method: 'PATCH', body: { currentPassword: `wrong-${i}`, newPassword: 'a-new-long-password' }, cookie })).status)
+    expect(statuses).toEqual([400, 400, 400, 400, 400, 429])
   })
 })
