@@ -1,18 +1,29 @@
 import type { Kysely, Transaction } from 'kysely'
+import { localKindOf, type LocalKind } from '../../shared/safety/text'
 import type { Database } from '../database/schema'
+import { localReport } from '../eclipse/report'
 import { dueOf } from './dues'
+import { elementsInForce } from './eclipses'
 import * as T from './mailTemplates'
 import { enqueueMail } from './outbox'
 
 type Db = Kysely<Database> | Transaction<Database>
 
+/** What is seen at the trip's primary site, so a booking e-mail's safety text fits an annular trip too. */
+async function tripKind(db: Db, t: { eclipse_id: string; primary_site_id: number }): Promise<LocalKind> {
+  const site = await db.selectFrom('sites').select(['lat', 'lon', 'elevation_m']).where('id', '=', t.primary_site_id).executeTakeFirstOrThrow()
+  const { el, deltaTOverride } = await elementsInForce(db as Kysely<Database>, t.eclipse_id)
+  return localKindOf(localReport(t.eclipse_id, el, { latDeg: site.lat, lonDeg: site.lon, elevationM: site.elevation_m }, deltaTOverride).type)
+}
+
 async function data(db: Db, bookingId: number, appUrl: string) {
   const b = await db.selectFrom('bookings').selectAll().where('id', '=', bookingId).executeTakeFirstOrThrow()
   const u = await db.selectFrom('users').select(['name', 'email']).where('id', '=', b.user_id).executeTakeFirstOrThrow()
-  const t = await db.selectFrom('trips').select(['id', 'title', 'balance_due_date']).where('id', '=', b.trip_id).executeTakeFirstOrThrow()
+  const t = await db.selectFrom('trips').select(['id', 'title', 'balance_due_date', 'eclipse_id', 'primary_site_id']).where('id', '=', b.trip_id).executeTakeFirstOrThrow()
   return {
     b, u, t,
-    d: { name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
+    d: {
+      kind: await tripKind(db, t), name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
   }
 }
 

@@ -23,19 +23,23 @@ const button = (href: string, label: string) => `<p style="margin:16px 0"><a hre
 const safetyHtml = (kind?: LocalKind) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
 const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l) => `- ${l}`).join('\n')}`
 
-export interface BookingMailData { name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string }
+export interface BookingMailData {
+  name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string
+  /** What is seen at the trip's site, for the safety text; omitted: the general wording. */
+  kind?: LocalKind
+}
 
 export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
   const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
   return frame(`Seats held: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(),
-    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText()}`)
+    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(d.kind),
+    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText(d.kind)}`)
 }
 
 export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
   return frame(`Booking confirmed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(),
-    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText()}`)
+    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(d.kind),
+    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText(d.kind)}`)
 }
 
 export function paymentReceipt(d: BookingMailData & { amountMinor: number; kind: string; reference: string | null; paidAt: string }): Mail {

@@ -36,6 +36,14 @@ async function pay(bookingId: number, cookie: string, outcome: 'succeeded' | 'de
   return sessionId as string
 }
 
+
+/** Money tests end with the booking's ledger equal to what the Stripe fake holds for it. */
+async function expectLedgerMatchesFake(bookingId: number, cookie: string) {
+  const b = await until(() => api(`/api/bookings/${bookingId}`, { cookie }), (r) => r.body.ledger.refundingMinor === 0)
+  const held = await (await fetch(`${STRIPE_FAKE}/_fake/holdings?bookingId=${bookingId}`)).json()
+  expect(b.body.ledger.netMinor).toBe(held.netMinor)
+}
+
 describe('trips', () => {
   it('only organisers create trips; bad bodies name the field', async () => {
     expect((await api('/api/trips', { method: 'POST', body: tripBody(), cookie: await signIn(TRAVELLER) })).status).toBe(403)
@@ -86,6 +94,7 @@ describe('booking and paying', () => {
     expect(c.body).toMatchObject({ status: 'cancelled', refundPct: 100, refundMinor: 400_000 })
     const state = await (await fetch(`${STRIPE_FAKE}/_fake/state`)).json()
     expect(state.refunds.filter((r: { metadata: { refundId: string } }) => r.metadata.refundId).reduce((s: number, r: { amount: number }) => s + r.amount, 0)).toBeGreaterThanOrEqual(400_000)
+    await expectLedgerMatchesFake(hold.body.id, trav)
   })
 
   it('refunds follow the tier in force: 50 % tier refunds half of what was paid', async () => {
@@ -96,6 +105,7 @@ describe('booking and paying', () => {
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     const c = await api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: trav })
     expect(c.body).toMatchObject({ refundPct: 50, refundMinor: 20_000 })
+    await expectLedgerMatchesFake(hold.body.id, trav)
   })
 
   it('a bad signature gets 400 and changes nothing; a replayed event changes nothing', async () => {
@@ -167,6 +177,7 @@ describe('booking and paying', () => {
     }
     await new Promise((r) => setTimeout(r, 800))
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.paidMinor).toBe(40_000)
+    await expectLedgerMatchesFake(hold.body.id, trav)
   })
 })
 
@@ -206,6 +217,7 @@ describe('who sees what', () => {
     const ok = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000, reason: 'bus broke down' }, cookie: org })
     expect(ok.body).toEqual({ refundMinor: 10_000, sent: true })
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.refundedMinor).toBe(10_000)
+    await expectLedgerMatchesFake(hold.body.id, trav)
     const csv = await api(`/api/trips/${tripId}/bookings.csv`, { cookie: org })
     expect(csv.body.split(/\r?\n/)[0]).toBe('booking_id,name,email,seats,status,currency,price_minor,paid_minor,refunded_minor,due_now_minor,balance_minor,created_at')
   })

@@ -152,3 +152,23 @@ describe('confirmed e-mail addresses', () => {
     expect((await api(`/api/trips/${luxor.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie })).status).toBe(201)
   })
 })
+
+describe('booking e-mails follow the kind of eclipse; sign-up tells an address owner', () => {
+  it('the hold e-mail of the annular demo trip keeps filters on and never says totality', async () => {
+    const trav = await signIn(TRAVELLER)
+    const trips = await api('/api/trips')
+    const annular = trips.body.data.find((t: { title: string }) => /Punta del Este/.test(t.title))
+    expect((await api(`/api/trips/${annular.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })).status).toBe(201)
+    expect(await waitFor(() => inbox.some((m) => m.subject === `Seats held: ${annular.title}`))).toBe(true)
+    const mail = inbox.find((m) => m.subject === `Seats held: ${annular.title}`)!
+    expect(mail.text).toContain('keep viewers and filters on throughout')
+    expect(mail.text).not.toMatch(/totality/i)
+    expect(String(mail.html)).not.toMatch(/totality/i)
+  })
+
+  it('signing up with an address that has an account answers as usual and e-mails its owner', async () => {
+    const r = await api('/api/auth/register', { method: 'POST', body: { name: 'Not Samir', email: 'traveller2@umbrafield.test', password: 'someone-elses-pass' } })
+    expect(r.status).toBe(202)
+    expect(await waitFor(() => inbox.some((m) => m.subject === 'Someone tried to sign up with your address' && m.to && 'value' in m.to && m.to.value[0]!.address === 'traveller2@umbrafield.test'))).toBe(true)
+  })
+})
