@@ -23,7 +23,7 @@ async function data(db: Db, bookingId: number, appUrl: string) {
   return {
     b, u, t,
     d: {
-      kind: await tripKind(db, t), name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
+      eclipseKind: await tripKind(db, t), name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
   }
 }
 

@@ -35,7 +35,7 @@ export async function itineraryMails(db: Kysely<Database>, tripId: number, appUr
       meeting: { name: trip.meeting_name, local: meet.local, utcOffset: meet.utcOffset, zone: meetZone },
       site: { name: site.name, lat: site.lat, lon: site.lon, mapUrl: `${appUrl}/trips/${trip.id}`, zone: site.zone },
       contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: site.words.contact[k], local: site.contacts[k]!.local.slice(11), utc: site.contacts[k]!.utc.slice(11, 19) })),
-      kind: site.kind, centralName: site.words.central ? site.words.central[0]!.toUpperCase() + site.words.central.slice(1) : null,
+      eclipseKind: site.kind, centralName: site.words.central ? site.words.central[0]!.toUpperCase() + site.words.central.slice(1) : null,
       durationSec: site.durationSec, timeLine: site.time.line, bring: T.WHAT_TO_BRING,
       organiser: organiser ?? { name: 'Your trip organiser', email: 'trips@umbrafield.test' },
     })

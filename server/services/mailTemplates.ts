@@ -26,20 +26,20 @@ const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l
 export interface BookingMailData {
   name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string
   /** What is seen at the trip's site, for the safety text; omitted: the general wording. */
-  kind?: LocalKind
+  eclipseKind?: LocalKind
 }
 
 export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
   const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
   return frame(`Seats held: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(d.kind),
-    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText(d.kind)}`)
+    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(d.eclipseKind),
+    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText(d.eclipseKind)}`)
 }
 
 export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
   return frame(`Booking confirmed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(d.kind),
-    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText(d.kind)}`)
+    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(d.eclipseKind),
+    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText(d.eclipseKind)}`)
 }
 
 export function paymentReceipt(d: BookingMailData & { amountMinor: number; kind: string; reference: string | null; paidAt: string }): Mail {
@@ -71,7 +71,7 @@ export interface ItineraryData extends BookingMailData {
   site: { name: string; lat: number; lon: number; mapUrl: string; zone: string }
   contacts: Array<{ label: string; local: string; utc: string }>
   /** What is seen at the site: it sets the phase words and the safety text. */
-  kind: LocalKind
+  eclipseKind: LocalKind
   /** "Totality", "Annularity", or null for a partial site. */
   centralName: string | null
   durationSec: number
@@ -88,8 +88,8 @@ export function itinerary(d: ItineraryData): Mail {
     + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. ${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s.` : 'A partial eclipse here: filters stay on throughout.'}`)
     + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
     + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
-    + safetyHtml(d.kind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
-  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.kind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
+    + safetyHtml(d.eclipseKind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
+  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
   return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
 }
 
