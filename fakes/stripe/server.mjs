@@ -247,11 +247,12 @@ const server = createServer(async (req, res) => {
         return send(res, 200, { ok: true })
       }
       if (seg[1] === 'refunds' && seg[2] === 'fail' && req.method === 'POST') { failRefunds = Number(form.count ?? 1); return send(res, 200, { failRefunds }) }
-      // What the fake holds for a booking: received − refunded over its payment intents (by metadata).
+      // What the fake holds for the given checkout sessions: received − refunded over their payment
+      // intents. By session, not by booking id: several test databases share one fake.
       if (seg[1] === 'holdings') {
-        const bookingId = url.searchParams.get('bookingId')
-        const mine = [...db.intents.values()].filter((pi) => pi.metadata?.bookingId === bookingId)
-        return send(res, 200, { bookingId, intents: mine.length, netMinor: mine.reduce((s, pi) => s + pi.amount_received - pi.amount_refunded, 0) })
+        const sessions = (url.searchParams.get('sessions') ?? '').split(',').filter(Boolean)
+        const mine = sessions.map((s) => db.sessions.get(s)?.payment_intent).filter(Boolean).map((p) => db.intents.get(p))
+        return send(res, 200, { sessions: sessions.length, intents: mine.length, netMinor: mine.reduce((s, pi) => s + pi.amount_received - pi.amount_refunded, 0) })
       }
       if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused })
       if (seg[1] === 'health') return send(res, 200, { ok: true })

@@ -37,10 +37,10 @@ async function pay(bookingId: number, cookie: string, outcome: 'succeeded' | 'de
 }
 
 
-/** Money tests end with the booking's ledger equal to what the Stripe fake holds for it. */
-async function expectLedgerMatchesFake(bookingId: number, cookie: string) {
+/** Money tests end with the booking's ledger equal to what the Stripe fake holds for the sessions paid. */
+async function expectLedgerMatchesFake(bookingId: number, cookie: string, sessionIds: string[]) {
   const b = await until(() => api(`/api/bookings/${bookingId}`, { cookie }), (r) => r.body.ledger.refundingMinor === 0)
-  const held = await (await fetch(`${STRIPE_FAKE}/_fake/holdings?bookingId=${bookingId}`)).json()
+  const held = await (await fetch(`${STRIPE_FAKE}/_fake/holdings?sessions=${sessionIds.join(',')}`)).json()
   expect(b.body.ledger.netMinor).toBe(held.netMinor)
 }
 
@@ -79,13 +79,13 @@ describe('booking and paying', () => {
     expect(hold.status).toBe(201)
     expect(hold.body.status).toBe('held')
     expect(Date.parse(hold.body.holdExpiresAt) - Date.now()).toBeGreaterThan(14 * 60_000)
-    await pay(hold.body.id, trav)
+    const deposit = await pay(hold.body.id, trav)
     const b = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     expect(b.body).toMatchObject({ status: 'confirmed', paidMinor: 80_000, dueMinor: 320_000 })
     expect(b.body.receipts).toHaveLength(1)
 
     // Balance, the same way
-    await pay(hold.body.id, trav)
+    const balance = await pay(hold.body.id, trav)
     const full = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.paidMinor === 400_000)
     expect(full.body.dueMinor).toBe(0)
 
@@ -94,18 +94,18 @@ describe('booking and paying', () => {
     expect(c.body).toMatchObject({ status: 'cancelled', refundPct: 100, refundMinor: 400_000 })
     const state = await (await fetch(`${STRIPE_FAKE}/_fake/state`)).json()
     expect(state.refunds.filter((r: { metadata: { refundId: string } }) => r.metadata.refundId).reduce((s: number, r: { amount: number }) => s + r.amount, 0)).toBeGreaterThanOrEqual(400_000)
-    await expectLedgerMatchesFake(hold.body.id, trav)
+    await expectLedgerMatchesFake(hold.body.id, trav, [deposit, balance])
   })
 
   it('refunds follow the tier in force: 50 % tier refunds half of what was paid', async () => {
     const trav = await signIn(TRAVELLER)
     const tripId = await newTrip(await signIn(ORGANISER), { cancellationTiers: [{ until: '2000-01-01', refundPct: 100 }, { until: '2099-01-01', refundPct: 50 }] })
     const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
-    await pay(hold.body.id, trav)
+    const paid = await pay(hold.body.id, trav)
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     const c = await api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: trav })
     expect(c.body).toMatchObject({ refundPct: 50, refundMinor: 20_000 })
-    await expectLedgerMatchesFake(hold.body.id, trav)
+    await expectLedgerMatchesFake(hold.body.id, trav, [paid])
   })
 
   it('a bad signature gets 400 and changes nothing; a replayed event changes nothing', async () => {
@@ -167,8 +167,9 @@ describe('booking and paying', () => {
     const tripId = await newTrip(await signIn(ORGANISER))
     const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
     await fetch(`${STRIPE_FAKE}/_fake/webhooks/pause`, { method: 'POST' })
+    let session: string
     try {
-      await pay(hold.body.id, trav)
+      session = await pay(hold.body.id, trav)
       expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('held')
       const b = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed', 10_000)
       expect(b.body).toMatchObject({ status: 'confirmed', paidMinor: 40_000 })
@@ -177,7 +178,7 @@ describe('booking and paying', () => {
     }
     await new Promise((r) => setTimeout(r, 800))
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.paidMinor).toBe(40_000)
-    await expectLedgerMatchesFake(hold.body.id, trav)
+    await expectLedgerMatchesFake(hold.body.id, trav, [session])
   })
 })
 
@@ -208,7 +209,7 @@ describe('who sees what', () => {
     const org = await signIn(ORGANISER)
     const tripId = await newTrip(org)
     const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
-    await pay(hold.body.id, trav)
+    const paid = await pay(hold.body.id, trav)
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     expect((await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000 }, cookie: org })).status).toBe(400)
     const tooMuch = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 999_999, reason: 'too much' }, cookie: org })
@@ -217,7 +218,7 @@ describe('who sees what', () => {
     const ok = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000, reason: 'bus broke down' }, cookie: org })
     expect(ok.body).toEqual({ refundMinor: 10_000, sent: true })
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.refundedMinor).toBe(10_000)
-    await expectLedgerMatchesFake(hold.body.id, trav)
+    await expectLedgerMatchesFake(hold.body.id, trav, [paid])
     const csv = await api(`/api/trips/${tripId}/bookings.csv`, { cookie: org })
     expect(csv.body.split(/\r?\n/)[0]).toBe('booking_id,name,email,seats,status,currency,price_minor,paid_minor,refunded_minor,due_now_minor,balance_minor,created_at')
   })

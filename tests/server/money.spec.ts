@@ -31,10 +31,13 @@ async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms = 10_000
 
 const sessionOf = (url: string) => url.split('/pay/')[1]!
 
-/** Every money test ends here: the booking's ledger equals what the fake holds for it, and nothing is still owed back. */
-async function expectLedgerMatchesStripe(bookingId: number, cookie: string, wantNetMinor: number) {
+/**
+ * Every money test ends here: the booking's ledger equals what the fake holds for the checkout
+ * sessions the test opened for it, and nothing is still owed back.
+ */
+async function expectLedgerMatchesStripe(bookingId: number, cookie: string, wantNetMinor: number, sessionUrls: string[]) {
   const b = await until(() => api(`/api/bookings/${bookingId}`, { cookie }), (r) => r.body.ledger.refundingMinor === 0)
-  const held = await fake(`/_fake/holdings?bookingId=${bookingId}`)
+  const held = await fake(`/_fake/holdings?sessions=${sessionUrls.map(sessionOf).join(',')}`)
   expect(b.body.ledger.refundingMinor).toBe(0)
   expect(b.body.ledger.netMinor).toBe(held.netMinor)
   expect(b.body.ledger.netMinor).toBe(wantNetMinor)
@@ -59,7 +62,7 @@ describe('money that adds up', () => {
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(b.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(a.body.url)}/complete`, { outcome: 'succeeded', force: true })).ok).toBe(true)
-    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 40_000)
+    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 40_000, [a.body.url, b.body.url])
     expect(view.paidMinor).toBe(40_000)
     expect(view.status).toBe('confirmed')
     const refunds = view.ledger.entries.filter((e: { type: string }) => e.type === 'refund')
@@ -79,7 +82,7 @@ describe('money that adds up', () => {
     // …and a payment that was already in flight is refunded in full.
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded', force: true })).ok).toBe(true)
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.ledger.entries.length === 2)
-    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 0)
+    const view = await expectLedgerMatchesStripe(hold.body.id, trav, 0, [c.body.url])
     expect(view.status).toBe('cancelled')
     expect(view.paidMinor).toBe(0)
   })
@@ -96,7 +99,7 @@ describe('money that adds up', () => {
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
     const view = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: late }), (r) => r.body.status === 'cancelled')
     expect(view.body.cancelReason).toMatch(/hold lapsed/)
-    await expectLedgerMatchesStripe(hold.body.id, late, 0)
+    await expectLedgerMatchesStripe(hold.body.id, late, 0, [c.body.url])
     const table = await api(`/api/trips/${tripId}/bookings`, { cookie: org })
     expect(table.body.data.find((b: { id: number }) => b.id === other.body.id).status).toBe('held')
   })
@@ -122,7 +125,7 @@ describe('money that adds up', () => {
     expect(done.body.refundedMinor).toBe(10_000)
     expect((await outbox()).some((m) => m.kind === 'refund-stuck')).toBe(true)
     expect((await outbox()).some((m) => m.kind === 'refund-issued')).toBe(true)
-    await expectLedgerMatchesStripe(hold.body.id, trav, 30_000)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 30_000, [c.body.url])
   })
 
   it('a cancel and a manual refund racing never refund more than was paid', async () => {
@@ -141,7 +144,7 @@ describe('money that adds up', () => {
     const refunded = (cancel.body.refundMinor as number) + (manual.status === 200 ? 30_000 : 0)
     expect(refunded).toBe(40_000)
     if (manual.status !== 200) expect(manual.status).toBe(400)
-    await expectLedgerMatchesStripe(hold.body.id, trav, 0)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 0, [c.body.url])
   })
 
   it('webhooks with a stale timestamp, no signature or the wrong secret get 400 and change nothing', async () => {
@@ -184,7 +187,7 @@ describe('money that adds up', () => {
     expect(next.body.url).not.toBe(c.body.url)
     await fake(`/_fake/checkout/sessions/${sessionOf(next.body.url)}/complete`, { outcome: 'succeeded' })
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
-    await expectLedgerMatchesStripe(hold.body.id, trav, 40_000)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 40_000, [c.body.url, next.body.url])
   })
 
   it('the reconciliation page lists no differences after all of the above; deleting a site a trip uses is a 409 naming the trip', async () => {
