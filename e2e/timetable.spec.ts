@@ -55,7 +55,7 @@ test('signing out on a shared device clears the countdown\'s offline copies', as
   }))
   expect(await kept()).toEqual({ saved: 1, caches: 1 })
   await page.goto('/account')
-  await page.getByRole('button', { name: 'Sign out' }).click()
+  await page.getByRole('button', { name: 'Sign out', exact: true }).click()
   await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible()
   expect(await kept()).toEqual({ saved: 0, caches: 0 })
 })

@@ -11,9 +11,12 @@ const cacheable = (url) =>
     /^\/api\/trips\/\d+\/timetable$/.test(url.pathname) ||
     url.pathname.startsWith('/_nuxt/') || url.pathname === '/logo.svg')
 
+// After sign-out the page says "forget": this worker stops caching and empties its cache.
+let forgetting = false
+
 self.addEventListener('fetch', (e) => {
   const url = new URL(e.request.url)
-  if (e.request.method !== 'GET' || !cacheable(url)) return
+  if (forgetting || e.request.method !== 'GET' || !cacheable(url)) return
   e.respondWith(
     fetch(e.request)
       .then((res) => {
@@ -26,6 +29,12 @@ self.addEventListener('fetch', (e) => {
 
 // The page sends what it loaded before the worker took control, so that it is cached too.
 self.addEventListener('message', (e) => {
+  if (e.data?.type === 'forget') {
+    forgetting = true
+    e.waitUntil(caches.keys().then((names) => Promise.all(names.filter((n) => n.startsWith('umbrafield-')).map((n) => caches.delete(n))))
+      .then(() => e.source?.postMessage({ type: 'forgotten' })))
+    return
+  }
   if (e.data?.type !== 'cache-urls') return
   e.waitUntil(caches.open(CACHE).then((c) => Promise.all(e.data.urls.map((u) =>
     fetch(u, { credentials: 'same-origin' }).then((res) => (res.ok ? c.put(u, res) : undefined)).catch(() => undefined)))).then(() => {
