@@ -1,4 +1,4 @@
-import { expect, signInAs, test } from './fixtures'
+import { expect, hydrated, signInAs, test } from './fixtures'
 
 test('the home page says what Umbrafield does, with no request leaving the machine', async ({ page }) => {
   await page.goto('/')
@@ -44,6 +44,7 @@ test('an organiser promotes a traveller on the People page; the traveller\'s ses
 
   await signInAs(page, 'organiser@umbrafield.test')
   await page.goto('/people')
+  await hydrated(page)
   await page.getByLabel('Role for Samir Okafor (demo traveller)').selectOption('guide')
   await expect(page.getByRole('status')).toHaveText('Role updated.')
 

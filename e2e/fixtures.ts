@@ -21,8 +21,14 @@ export const test = base.extend<{ outside: string[]; fixedClock: undefined }>({
 })
 export { expect }
 
+/** Waits until the page is hydrated: before that, a change to a control can be lost. */
+export async function hydrated(page: Page) {
+  await expect(page.locator('html')).toHaveAttribute('data-hydrated', 'true')
+}
+
 export async function signInAs(page: Page, email: string, password = 'eclipse-demo') {
   await page.goto('/login')
+  await hydrated(page)
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()

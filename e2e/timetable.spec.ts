@@ -1,4 +1,4 @@
-import { expect, signInAs, test } from './fixtures'
+import { expect, hydrated, signInAs, test } from './fixtures'
 
 test('the guide opens the demo trip timetable, prints every site, downloads the PDF', async ({ page }) => {
   await signInAs(page, 'guide@umbrafield.test')
@@ -55,7 +55,8 @@ test('signing out on a shared device clears the countdown\'s offline copies', as
   }))
   expect(await kept()).toEqual({ saved: 1, caches: 1 })
   await page.goto('/account')
+  await hydrated(page)
   await page.getByRole('button', { name: 'Sign out', exact: true }).click()
-  await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible()
+  await expect(page.getByRole('banner').getByRole('link', { name: 'Sign in' })).toBeVisible()
   expect(await kept()).toEqual({ saved: 0, caches: 0 })
 })

@@ -69,3 +69,13 @@ export const ORGANISER = 'organiser@umbrafield.test'
 export const GUIDE = 'guide@umbrafield.test'
 export const TRAVELLER = 'traveller@umbrafield.test'
 export const TRAVELLER2 = 'traveller2@umbrafield.test'
+
+/** Polls `fn` until `ok` holds or `ms` pass; returns the last value (the caller asserts on it). */
+export async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms = 10_000): Promise<T> {
+  const end = Date.now() + ms
+  for (;;) {
+    const v = await fn()
+    if (ok(v) || Date.now() > end) return v
+    await new Promise((r) => setTimeout(r, 150))
+  }
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { api, GUIDE, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, GUIDE, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
 await useApp({ UMBRAFIELD_RECONCILE_AFTER_MS: '1500' })
 
@@ -17,15 +17,6 @@ async function newTrip(org: string, over: Record<string, unknown> = {}) {
   return r.body.id as number
 }
 
-async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms = 8000): Promise<T> {
-  const end = Date.now() + ms
-  for (;;) {
-    const v = await fn()
-    if (ok(v) || Date.now() > end) return v
-    await new Promise((r) => setTimeout(r, 150))
-  }
-}
-
 async function pay(bookingId: number, cookie: string, outcome: 'succeeded' | 'declined' = 'succeeded') {
   const c = await api(`/api/bookings/${bookingId}/checkout`, { method: 'POST', cookie })
   expect(c.status).toBe(200)
@@ -35,7 +26,6 @@ async function pay(bookingId: number, cookie: string, outcome: 'succeeded' | 'de
   expect(done.status).toBe(200)
   return sessionId as string
 }
-
 
 /** Money tests end with the booking's ledger equal to what the Stripe fake holds for the sessions paid. */
 async function expectLedgerMatchesFake(bookingId: number, cookie: string, sessionIds: string[]) {

@@ -1,6 +1,6 @@
 import Stripe from 'stripe'
 import { describe, expect, it } from 'vitest'
-import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
 // Money against the local Stripe fake. Holds last 6 s here so that a lapse can be watched; refunds
 // are retried after 0.5 s, 1 s, 2 s… (UMBRAFIELD_REFUND_RETRY_MS) by housekeeping every second.
@@ -20,16 +20,17 @@ async function newTrip(org: string, over: Record<string, unknown> = {}) {
   return r.body.id as number
 }
 
-async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms = 10_000): Promise<T> {
-  const end = Date.now() + ms
-  for (;;) {
-    const v = await fn()
-    if (ok(v) || Date.now() > end) return v
-    await new Promise((r) => setTimeout(r, 150))
-  }
-}
-
 const sessionOf = (url: string) => url.split('/pay/')[1]!
+
+/** A one-seat booking whose deposit the traveller has paid on the fake: returns it and its checkout. */
+async function confirmedBooking(trav: string, org: string) {
+  const tripId = await newTrip(org)
+  const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+  const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
+  await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })
+  await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+  return { hold, c }
+}
 
 /**
  * Every money test ends here: the booking's ledger equals what the fake holds for the checkout
@@ -107,11 +108,7 @@ describe('money that adds up', () => {
   it('a refund Stripe rejects is not counted, is retried with backoff, and counts once it succeeds; the organiser hears when it keeps failing', async () => {
     const trav = await signIn(TRAVELLER)
     const org = await signIn(ORGANISER)
-    const tripId = await newTrip(org)
-    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
-    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
-    await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })
-    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    const { hold, c } = await confirmedBooking(trav, org)
     await fake('/_fake/refunds/fail', { count: 3 })
     const r = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000, reason: 'coach cancelled' }, cookie: org })
     expect(r.body).toEqual({ refundMinor: 10_000, sent: false })
@@ -131,11 +128,7 @@ describe('money that adds up', () => {
   it('a cancel and a manual refund racing never refund more than was paid', async () => {
     const trav = await signIn(TRAVELLER)
     const org = await signIn(ORGANISER)
-    const tripId = await newTrip(org)
-    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
-    const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: trav })
-    await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })
-    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
+    const { hold, c } = await confirmedBooking(trav, org)
     const [cancel, manual] = await Promise.all([
       api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: trav }),
       api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 30_000, reason: 'goodwill' }, cookie: org }),
