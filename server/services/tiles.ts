@@ -6,6 +6,7 @@ import { feature, mesh } from 'topojson-client'
 import type { GeometryCollection, Topology } from 'topojson-specification'
 import { readFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
+import { RebuildingIndex } from '../utils/rebuildingIndex'
 
 /**
  * Basemap vector tiles made by Umbrafield from Natural Earth 1:10m (world-atlas) and GeoNames
@@ -51,7 +52,9 @@ export function placeMinZoom(population: number): number {
 }
 
 interface Indexes { base: GeoJSONVT; places: GeoJSONVT }
-let indexes: Indexes | undefined
+/** About 20 000 tiles at a few kB each keeps the index well under 100 MB before it is rebuilt. */
+const TILE_INDEX_MAX = 20_000
+const indexes = new RebuildingIndex<Indexes>(() => build(), TILE_INDEX_MAX)
 
 /** Reads a world-atlas file at run time (too large to bundle; traced into the build by nuxt.config). */
 function atlas<T>(file: string): T {
@@ -101,9 +104,9 @@ export function tile(z: number, x: number, y: number): Uint8Array {
     cache.set(key, hit)
     return hit
   }
-  indexes ??= build()
-  const base = indexes.base.getTile(z, x, y) as { features: Array<{ tags: { layer: string } }> } | null
-  const places = indexes.places.getTile(z, x, y) as { features: Array<{ tags: { minzoom: number } }> } | null
+  const index = indexes.for(key)
+  const base = index.base.getTile(z, x, y) as { features: Array<{ tags: { layer: string } }> } | null
+  const places = index.places.getTile(z, x, y) as { features: Array<{ tags: { minzoom: number } }> } | null
   const pick = (layer: string) => (base ? { ...base, features: base.features.filter((f) => f.tags.layer === layer) } : EMPTY)
   const buf = fromGeojsonVt({
     land: pick('land'),
