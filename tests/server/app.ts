@@ -56,11 +56,14 @@ export async function api<T = any>(path: string, opts: { method?: string; body?:
   return { status: res.status, body: parsed as T, headers: res.headers }
 }
 
-/** Signs in and returns the session cookie header. */
-export async function signIn(email: string, password = 'eclipse-demo'): Promise<string> {
-  const res = await fetch(url('/api/auth/login'), {
-    method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }),
-  })
+/**
+ * Signs in and returns the session cookie header. `from` is the client address a trusted proxy
+ * reports (the app must be started with NUXT_TRUSTED_PROXIES=127.0.0.1 for it to count).
+ */
+export async function signIn(email: string, password = 'eclipse-demo', from?: string): Promise<string> {
+  const headers: Record<string, string> = { 'content-type': 'application/json' }
+  if (from) headers['x-forwarded-for'] = from
+  const res = await fetch(url('/api/auth/login'), { method: 'POST', headers, body: JSON.stringify({ email, password }) })
   if (res.status !== 200) throw new Error(`sign-in failed for ${email}: ${res.status}`)
   return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
 }
