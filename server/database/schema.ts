@@ -243,7 +243,24 @@ export interface OutboxTable {
   sent_at: string | null
 }
 
+/** A housekeeping job's lease: the holder runs the job until expires_at (UTC ISO). */
+export interface JobLeasesTable {
+  name: string
+  holder: string
+  expires_at: string
+}
+
+/** Fixed-window request counts per key, shared by every app instance (PostgreSQL set-ups). */
+export interface RateLimitHitsTable {
+  key: string
+  window_start: string
+  hits: number
+  expires_at: string
+}
+
 export interface Database {
+  job_leases: JobLeasesTable
+  rate_limit_hits: RateLimitHitsTable
   users: UsersTable
   audit_log: AuditLogTable
   sign_in_failures: SignInFailuresTable

@@ -1,5 +1,7 @@
 import { housekeeping } from '../services/bookings'
+import { withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
+import { pruneRateLimits } from '../utils/rateLimit'
 
 /**
  * Every 30 s: release lapsed holds and stale waitlist offers, reconcile checkouts whose webhook never
@@ -8,23 +10,30 @@ import { processRefunds, reconcileLedger, reconcilePayments } from '../services/
  */
 const DAY_MS = 24 * 3600_000
 export default defineNitroPlugin((nitro) => {
-  let lastLedgerRun = 0
+  const everyMs = Number(process.env.UMBRAFIELD_HOUSEKEEPING_MS || 30_000)
+  const ledgerEveryMs = Number(process.env.UMBRAFIELD_LEDGER_RECONCILE_MS || DAY_MS)
   const tick = async () => {
     try {
       await dbReady()
-      await housekeeping(useDb(), bookingConfig())
-      if (!useRuntimeConfig().stripe.secretKey) return
-      await reconcilePayments(useDb(), useStripe(), bookingConfig())
-      await processRefunds(useDb(), useStripe(), bookingConfig())
-      if (Date.now() - lastLedgerRun > Number(process.env.UMBRAFIELD_LEDGER_RECONCILE_MS || DAY_MS)) {
-        lastLedgerRun = Date.now()
-        await reconcileLedger(useDb(), useStripe())
+      const db = useDb()
+      // With several instances on one database, the one holding the lease does the tick; the lease
+      // outlives two ticks, so a crashed holder is replaced within a minute or so.
+      await withLease(db, 'housekeeping', everyMs * 2, async () => {
+        await housekeeping(db, bookingConfig())
+        await pruneRateLimits(db)
+        if (!useRuntimeConfig().stripe.secretKey) return
+        await reconcilePayments(db, useStripe(), bookingConfig())
+        await processRefunds(db, useStripe(), bookingConfig())
+      })
+      // The daily ledger comparison: a lease that lasts the day, so it runs once a day in one instance.
+      if (useRuntimeConfig().stripe.secretKey) {
+        await withLease(db, 'ledger-reconcile', ledgerEveryMs, () => reconcileLedger(db, useStripe()).then(() => undefined), { renew: false })
       }
     } catch (e) {
       console.error('[umbrafield] housekeeping:', (e as Error).message)
     }
   }
-  const timer = setInterval(tick, Number(process.env.UMBRAFIELD_HOUSEKEEPING_MS || 30_000))
+  const timer = setInterval(tick, everyMs)
   timer.unref()
   nitro.hooks.hook('close', () => clearInterval(timer))
 })

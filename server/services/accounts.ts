@@ -109,7 +109,7 @@ export async function changeRole(db: Kysely<Database>, actor: User, userId: numb
     if (target.role === 'organiser' && role !== 'organiser') {
       const [{ n }] = await trx.selectFrom('users').select((eb) => eb.fn.countAll<number>().as('n'))
         .where('role', '=', 'organiser').execute() as [{ n: number }]
-      if (n <= 1) throw new Error('The last organiser cannot be demoted')
+      if (Number(n) <= 1) throw new Error('The last organiser cannot be demoted')
     }
     // A role change ends the user's sessions: the next request signs in afresh under the new role.
     const updated = await trx.updateTable('users').set((eb) => ({ role, session_version: eb('session_version', '+', 1) })).where('id', '=', userId).returningAll().executeTakeFirstOrThrow()

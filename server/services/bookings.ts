@@ -8,7 +8,7 @@ import { mailBookingHeld, mailWaitlistOffer } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
-import { getTripRow, seatUse, tiersOf } from './trips'
+import { getTripRow, lockTripRow, seatUse, tiersOf } from './trips'
 
 type Db = Kysely<Database> | Transaction<Database>
 export type { BookingRow }
@@ -64,7 +64,7 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
 export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
   if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
   return db.transaction().execute(async (trx) => {
-    const trip = await trx.selectFrom('trips').selectAll().where('id', '=', tripId).executeTakeFirst()
+    const trip = await lockTripRow(trx, tripId)
     if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
     await releaseLapsed(trx, tripId, cfg)
     const now = iso()
@@ -94,7 +94,7 @@ export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | nul
     if (!b) throw new NotFoundError('No such booking')
     if (b.status !== 'held' || !b.hold_expires_at || b.hold_expires_at <= iso()) throw new BookingStateError('Only an active hold can change its seats')
     if (b.paid_minor > 0) throw new BookingStateError('A payment is under way on this hold')
-    const trip = await trx.selectFrom('trips').selectAll().where('id', '=', b.trip_id).executeTakeFirstOrThrow()
+    const trip = (await lockTripRow(trx, b.trip_id))!
     await releaseLapsed(trx, b.trip_id, cfg)
     const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), user.id)
     const available = trip.seats - (use.taken - b.seats) - use.offered
@@ -111,7 +111,7 @@ export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | nul
 
 export async function joinWaitlist(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
   return db.transaction().execute(async (trx) => {
-    const trip = await trx.selectFrom('trips').selectAll().where('id', '=', tripId).executeTakeFirst()
+    const trip = await lockTripRow(trx, tripId)
     if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
     await releaseLapsed(trx, tripId, cfg)
     const already = await trx.selectFrom('waitlist').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', 'in', ['waiting', 'offered']).executeTakeFirst()
@@ -160,6 +160,7 @@ export async function cancelBooking(db: Kysely<Database>, stripe: Stripe | null,
   const trip = await getTripRow(db, b.trip_id)
   const pct = b.status === 'confirmed' ? refundPctOn(tiersOf(trip), businessDate()) : 0
   const refundMinor = await db.transaction().execute(async (trx) => {
+    await lockTripRow(trx, b.trip_id)
     const changed = await trx.updateTable('bookings').set({ status: 'cancelled', cancel_reason: `cancelled by ${user.id === b.user_id ? 'the traveller' : 'an organiser'}`, updated_at: iso() })
       .where('id', '=', b.id).where('status', 'in', ['held', 'confirmed']).executeTakeFirst()
     if (!changed.numUpdatedRows) throw new BookingStateError('This booking changed meanwhile; reload and try again')
@@ -189,5 +190,10 @@ export async function manualRefund(db: Kysely<Database>, stripe: Stripe, organis
 /** Periodic housekeeping for every trip: lapsed holds and offers. */
 export async function housekeeping(db: Kysely<Database>, cfg: BookingConfig) {
   const trips = await db.selectFrom('trips').select('id').where('status', '=', 'published').execute()
-  for (const t of trips) await db.transaction().execute((trx) => releaseLapsed(trx, t.id, cfg))
+  for (const t of trips) {
+    await db.transaction().execute(async (trx) => {
+      await lockTripRow(trx, t.id)
+      await releaseLapsed(trx, t.id, cfg)
+    })
+  }
 }

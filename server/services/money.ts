@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import type { Kysely, Transaction } from 'kysely'
 import type Stripe from 'stripe'
+import { isPostgres } from '../database/dialect'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { mailBookingConfirmed, mailReceipt, mailRefund } from './bookingMail'
@@ -8,7 +9,7 @@ import { dueOf, type BookingRow } from './dues'
 import { refundStuckMail } from './mailTemplates'
 import { enqueueMail } from './outbox'
 import { NotFoundError } from './planning'
-import { getTripRow, seatUse } from './trips'
+import { getTripRow, lockTripRow, seatUse } from './trips'
 
 /**
  * Money that always adds up.
@@ -130,13 +131,17 @@ export async function refundableOf(trx: Db, b: Pick<BookingRow, 'id' | 'paid_min
  */
 export async function requestRefund(trx: Transaction<Database>, bookingId: number, amount: number, reason: string, actorId: number | null, paymentId?: number): Promise<number> {
   if (amount <= 0) return 0
+  // PostgreSQL: lock the booking row, so two refunds asked for at once (a cancellation and a manual
+  // refund in two instances) check the limit one after the other. SQLite: the transaction already
+  // holds the write lock (BEGIN IMMEDIATE).
+  const bq = trx.selectFrom('bookings').select(['id', 'paid_minor']).where('id', '=', bookingId)
+  const b = await (isPostgres(trx) ? bq.forUpdate() : bq).executeTakeFirstOrThrow()
   const stray = paymentId !== undefined
   let payments = await trx.selectFrom('payments').selectAll().where('booking_id', '=', bookingId).where('status', '=', 'succeeded').orderBy('id', 'desc').execute()
   if (stray) payments = payments.filter((p) => p.id === paymentId)
   const asked = await trx.selectFrom('refunds').select(['payment_id', 'amount_minor']).where('booking_id', '=', bookingId).execute()
   const room = payments.map((p) => ({ p, left: p.amount_minor - asked.filter((r) => r.payment_id === p.id).reduce((s, r) => s + r.amount_minor, 0) }))
   const byPayments = room.reduce((s, r) => s + Math.max(0, r.left), 0)
-  const b = await trx.selectFrom('bookings').select(['id', 'paid_minor']).where('id', '=', bookingId).executeTakeFirstOrThrow()
   const total = stray ? byPayments : Math.min(byPayments, await refundableOf(trx, b))
   if (amount > total) throw new RefundLimitError(`At most ${total} can be refunded`)
   let left = amount
@@ -161,14 +166,20 @@ export async function requestRefund(trx: Transaction<Database>, bookingId: numbe
 export async function completePayment(trx: Transaction<Database>, paymentId: number, paymentIntentId: string | null, cfg: MoneyConfig): Promise<{ applied: number; stray: number }> {
   const p = await trx.selectFrom('payments').selectAll().where('id', '=', paymentId).executeTakeFirst()
   if (!p || p.status === 'succeeded') return { applied: 0, stray: 0 }
-  await trx.updateTable('payments').set({ status: 'succeeded', payment_intent_id: paymentIntentId ?? p.payment_intent_id, completed_at: iso() }).where('id', '=', p.id).execute()
+  // The conditional update is the exactly-once point: a webhook and a reconciliation in two instances
+  // may both get here, and only the one whose update changes the row goes on.
+  const won = await trx.updateTable('payments').set({ status: 'succeeded', payment_intent_id: paymentIntentId ?? p.payment_intent_id, completed_at: iso() })
+    .where('id', '=', p.id).where('status', '!=', 'succeeded').executeTakeFirst()
+  if (!won.numUpdatedRows) return { applied: 0, stray: 0 }
+  // The trip row lock orders this with holds, cancellations and other payments of the same trip.
+  const ref = await trx.selectFrom('bookings').select('trip_id').where('id', '=', p.booking_id).executeTakeFirstOrThrow()
+  const trip = (await lockTripRow(trx, ref.trip_id))!
   const b = await trx.selectFrom('bookings').selectAll().where('id', '=', p.booking_id).executeTakeFirstOrThrow()
   const stray = async (amount: number, why: string) => {
     await requestRefund(trx, b.id, amount, `automatic: ${why}`, null, p.id)
     await audit(trx, { action: 'payment_stray', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: amount, why } })
   }
   if (p.kind === 'deposit' && (b.status === 'held' || b.status === 'expired')) {
-    const trip = await trx.selectFrom('trips').select('seats').where('id', '=', b.trip_id).executeTakeFirstOrThrow()
     const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), b.user_id)
     const mine = b.status === 'held' && b.hold_expires_at! > iso() ? b.seats : 0
     if (trip.seats - (use.taken - mine) - use.offered >= b.seats) {

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import type { Kysely, Transaction } from 'kysely'
 import nodemailer, { type Transporter } from 'nodemailer'
+import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
 import type { Mail } from './mailTemplates'
 
@@ -50,13 +51,31 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
   const now = new Date()
   await db.updateTable('outbox').set({ status: 'queued', sending_since: null })
     .where('status', '=', 'sending').where('sending_since', '<', new Date(now.getTime() - OUTBOX.stuckAfterMs).toISOString()).execute()
-  const due = await db.selectFrom('outbox').selectAll().where('status', '=', 'queued').where('next_attempt_at', '<=', now.toISOString())
-    .orderBy('id').limit(limit).execute()
+  const dueQuery = (q: Db) => q.selectFrom('outbox').selectAll().where('status', '=', 'queued').where('next_attempt_at', '<=', now.toISOString())
+    .orderBy('id').limit(limit)
+  let due: Awaited<ReturnType<ReturnType<typeof dueQuery>['execute']>>
+  if (isPostgres(db)) {
+    // PostgreSQL, several instances: claim a batch in one transaction with FOR UPDATE SKIP LOCKED, so
+    // two workers never pick the same message and neither waits on the other's rows.
+    due = await db.transaction().execute(async (trx) => {
+      const rows = await dueQuery(trx).forUpdate().skipLocked().execute()
+      if (rows.length) {
+        await trx.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() }).where('id', 'in', rows.map((r) => r.id)).execute()
+      }
+      return rows
+    })
+  } else {
+    // SQLite: one row at a time with a conditional update (queued → sending); a row another worker
+    // claimed first is skipped.
+    due = []
+    for (const m of await dueQuery(db).execute()) {
+      const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() })
+        .where('id', '=', m.id).where('status', '=', 'queued').executeTakeFirst()
+      if (claim.numUpdatedRows) due.push(m)
+    }
+  }
   let sent = 0, failed = 0
   for (const m of due) {
-    const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() })
-      .where('id', '=', m.id).where('status', '=', 'queued').executeTakeFirst()
-    if (!claim.numUpdatedRows) continue
     try {
       await transport.sendMail({
         messageId: m.message_id, from, to: m.to_name ? { name: m.to_name, address: m.to_email } : m.to_email,

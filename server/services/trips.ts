@@ -1,4 +1,5 @@
-import type { Kysely, Selectable } from 'kysely'
+import type { Kysely, Selectable, Transaction } from 'kysely'
+import { isPostgres } from '../database/dialect'
 import { localTime } from '../../shared/time/local'
 import { localKindOf, phaseWords } from '../../shared/safety/text'
 import type { CancellationTierInput, TripCreateInput } from '../../shared/schemas/trips'
@@ -39,6 +40,18 @@ export async function createTrip(db: Kysely<Database>, user: User, t: TripCreate
     await audit(trx, { action: 'trip_create', actorUserId: user.id, detail: { tripId: trip.id } })
     return { id: trip.id }
   })
+}
+
+/**
+ * The trip row, locked for the rest of the caller's transaction, so that seat counts read after it
+ * cannot change underneath: every transaction that hands out or frees seats of a trip takes this
+ * first. PostgreSQL: SELECT … FOR UPDATE, a row lock held until commit (other instances wait).
+ * SQLite: a plain read; the transaction began with BEGIN IMMEDIATE and so already holds the
+ * database's one write lock.
+ */
+export async function lockTripRow(trx: Transaction<Database>, id: number): Promise<TripRow | undefined> {
+  const q = trx.selectFrom('trips').selectAll().where('id', '=', id)
+  return (isPostgres(trx) ? q.forUpdate() : q).executeTakeFirst()
 }
 
 export async function getTripRow(db: Kysely<Database>, id: number): Promise<TripRow> {

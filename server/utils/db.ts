@@ -1,14 +1,18 @@
 import type { Kysely } from 'kysely'
 import { migrateToLatest, openDatabase } from '../database/connection'
+import { isPostgresUrl } from '../database/dialect'
 import type { Database } from '../database/schema'
 import { seedDemo } from '../database/seed/demo'
 
 let instance: Kysely<Database> | undefined
 let ready: Promise<void> | undefined
 
-/** The one Kysely instance of this server process. The path comes from runtimeConfig.dbPath (NUXT_DB_PATH). */
+/**
+ * The one Kysely instance of this server process: PostgreSQL when DATABASE_URL is a postgres:// URL,
+ * otherwise the embedded SQLite file at runtimeConfig.dbPath (NUXT_DB_PATH).
+ */
 export function useDb(): Kysely<Database> {
-  if (!instance) instance = openDatabase(useRuntimeConfig().dbPath)
+  if (!instance) instance = openDatabase(isPostgresUrl(process.env.DATABASE_URL) ? process.env.DATABASE_URL : useRuntimeConfig().dbPath)
   return instance
 }
 

@@ -1,22 +1,46 @@
 import type { H3Event } from 'h3'
+import type { Kysely } from 'kysely'
+import { isPostgres } from '../database/dialect'
+import type { Database } from '../database/schema'
 
 /**
- * A small sliding-window limiter for abuse-prone writes (sign-up per address, seat holds per
- * account). In-process: with several app instances each keeps its own count, so the limit is per
- * instance (see the README's notes on running several instances).
+ * Limits abuse-prone requests per key (sign-up per address, seat holds per account, public routes
+ * per address).
+ * - SQLite (the embedded, one-process set-up): a sliding window kept in this process's memory.
+ * - PostgreSQL (several instances): fixed windows counted in the database (rate_limit_hits), one
+ *   atomic upsert per request, so every instance sees the same count.
  */
 const hits = new Map<string, number[]>()
 
-export function rateLimit(event: H3Event, key: string, limit: number, windowMs: number) {
+function refuse(event: H3Event, retryAfterSec: number): never {
+  setResponseHeader(event, 'Retry-After', retryAfterSec)
+  throw createError({ statusCode: 429, statusMessage: 'Too many requests', message: `Too many requests: try again in ${retryAfterSec} s`, data: { code: 'rate_limited', retryAfterSec } })
+}
+
+export async function rateLimit(event: H3Event, key: string, limit: number, windowMs: number): Promise<void> {
+  await dbReady()
+  const db = useDb()
+  if (isPostgres(db)) return sharedRateLimit(event, db, key, limit, windowMs)
   const now = Date.now()
   const recent = (hits.get(key) ?? []).filter((t) => t > now - windowMs)
-  if (recent.length >= limit) {
-    const retryAfterSec = Math.ceil((recent[0]! + windowMs - now) / 1000)
-    setResponseHeader(event, 'Retry-After', retryAfterSec)
-    throw createError({ statusCode: 429, statusMessage: 'Too many requests', message: `Too many requests: try again in ${retryAfterSec} s`, data: { code: 'rate_limited', retryAfterSec } })
-  }
+  if (recent.length >= limit) refuse(event, Math.ceil((recent[0]! + windowMs - now) / 1000))
   recent.push(now)
   hits.set(key, recent)
   // Forget idle keys now and then so the map stays small.
   if (hits.size > 10_000) for (const [k, v] of hits) if (!v.some((t) => t > now - windowMs)) hits.delete(k)
+}
+
+async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string, limit: number, windowMs: number): Promise<void> {
+  const now = Date.now()
+  const start = Math.floor(now / windowMs) * windowMs
+  const row = await db.insertInto('rate_limit_hits')
+    .values({ key, window_start: new Date(start).toISOString(), hits: 1, expires_at: new Date(start + windowMs).toISOString() })
+    .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', 1) })))
+    .returning('hits').executeTakeFirstOrThrow()
+  if (Number(row.hits) > limit) refuse(event, Math.max(1, Math.ceil((start + windowMs - now) / 1000)))
+}
+
+/** Drops expired windows (housekeeping). */
+export async function pruneRateLimits(db: Kysely<Database>): Promise<void> {
+  await db.deleteFrom('rate_limit_hits').where('expires_at', '<', new Date().toISOString()).execute()
 }

@@ -1,16 +1,41 @@
+import { randomUUID } from 'node:crypto'
 import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { setup, url } from '@nuxt/test-utils/e2e'
+import pg from 'pg'
 import { beforeAll } from 'vitest'
 import { fakeServices } from '../../scripts/fakes.mjs'
 import { TEST_APP_PORT, TEST_FAKE_PORTS } from './global-setup'
 
 const rootDir = resolve(__dirname, '../..')
 
-/** Starts the built app on a fresh, demo-seeded SQLite file for this test file. */
+/**
+ * A fresh, empty PostgreSQL database on the throwaway cluster that scripts/with-postgres.mjs started
+ * (UMBRAFIELD_TEST_PG_URL), or null when the suite runs on SQLite.
+ */
+export async function freshPostgresDatabase(): Promise<string | null> {
+  const admin = process.env.UMBRAFIELD_TEST_PG_URL
+  if (!admin) return null
+  const name = `uf_${randomUUID().replace(/-/g, '').slice(0, 16)}`
+  const c = new pg.Client(admin)
+  await c.connect()
+  try { await c.query(`create database ${name}`) } finally { await c.end() }
+  const u = new URL(admin)
+  u.pathname = `/${name}`
+  return u.toString()
+}
+
+/** Which database the server tests run on, for test names and messages. */
+export const TEST_DB = process.env.UMBRAFIELD_TEST_PG_URL ? 'PostgreSQL' : 'SQLite'
+
+/**
+ * Starts the built app for this test file on a fresh, demo-seeded database: a new SQLite file, or a
+ * new PostgreSQL database when the suite runs under scripts/with-postgres.mjs.
+ */
 export async function useApp(env: Record<string, string> = {}) {
   const dir = mkdtempSync(join(tmpdir(), 'umbrafield-test-'))
+  const databaseUrl = await freshPostgresDatabase()
   Object.assign(process.env, TEST_FAKE_PORTS)
   const fakeEnv = Object.assign({}, ...fakeServices({ appPort: TEST_APP_PORT }).map((f) => f.appEnv))
   await setup({
@@ -22,6 +47,7 @@ export async function useApp(env: Record<string, string> = {}) {
     nuxtConfig: { nitro: { output: { dir: resolve(rootDir, '.output') } } },
     env: {
       NUXT_DB_PATH: join(dir, 'test.sqlite'),
+      ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}),
       NUXT_SEED: 'demo',
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
       NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${TEST_APP_PORT}`,
@@ -36,7 +62,8 @@ export async function useApp(env: Record<string, string> = {}) {
   })
   // Wait until migrations, the catalogue and the basemap index are ready, so no test meets a warming server.
   beforeAll(async () => { await fetch(url('/api/health')) }, 120_000)
-  return { dbPath: join(dir, 'test.sqlite') }
+  /** The app's database, for tests that inspect rows directly (a SQLite path or a postgres:// URL). */
+  return { dbTarget: databaseUrl ?? join(dir, 'test.sqlite') }
 }
 
 export interface ApiResult<T = any> { status: number; body: T; headers: Headers }

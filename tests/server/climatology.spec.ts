@@ -1,10 +1,12 @@
-import Database from 'better-sqlite3'
 import { writeArrayBuffer } from 'geotiff'
-import { describe, expect, it } from 'vitest'
+import { afterAll, describe, expect, it } from 'vitest'
+import { openDatabase } from '../../server/database/connection'
 import { url } from '@nuxt/test-utils/e2e'
 import { api, GUIDE, ORGANISER, signIn, TRAVELLER, useApp } from './app'
 
-const { dbPath } = await useApp()
+const { dbTarget } = await useApp()
+const db = openDatabase(dbTarget)
+afterAll(() => db.destroy())
 
 async function upload(fields: Record<string, string>, file: { name: string; data: Uint8Array | string }, cookie: string) {
   const form = new FormData()
@@ -14,14 +16,10 @@ async function upload(fields: Record<string, string>, file: { name: string; data
   return { status: res.status, body: await res.json() }
 }
 
-function counts() {
-  const db = new Database(dbPath, { readonly: true })
-  const r = {
-    datasets: (db.prepare('select count(*) n from climatology_datasets').get() as { n: number }).n,
-    grids: (db.prepare('select count(*) n from climatology_grids').get() as { n: number }).n,
-  }
-  db.close()
-  return r
+async function counts() {
+  const n = async (t: 'climatology_datasets' | 'climatology_grids') =>
+    Number((await db.selectFrom(t).select((eb) => eb.fn.countAll().as('n')).executeTakeFirstOrThrow()).n)
+  return { datasets: await n('climatology_datasets'), grids: await n('climatology_grids') }
 }
 
 /** A GeoTIFF covering the demo sites (lat 20–38, lon −8–42) at 2° with one uniform value, percent. */
@@ -59,7 +57,7 @@ describe('cloud climatology', () => {
 
   it('rejects each bad file with its reason and stores nothing', async () => {
     const org = await signIn(ORGANISER)
-    const before = counts()
+    const before = await counts()
     const cases: Array<[string, Record<string, string>, { name: string; data: Uint8Array | string }, RegExp]> = [
       ['projected CRS', { name: 'x', source: 'test', month: '8' }, { name: 'p.tif', data: uniformTiff(20, { GeographicTypeGeoKey: undefined, ProjectedCSTypeGeoKey: 32636, GTModelTypeGeoKey: 1 }) }, /Wrong CRS/],
       ['out of range', { name: 'x', source: 'test', month: '8' }, { name: 'o.tif', data: uniformTiff(150) }, /out of range/],
@@ -75,7 +73,7 @@ describe('cloud climatology', () => {
     const noName = await upload({ source: 'test', month: '8' }, { name: 'u.tif', data: uniformTiff(20) }, org)
     expect(noName.status).toBe(400)
     expect(noName.body.data.fields.name).toMatch(/required/)
-    expect(counts()).toEqual(before)
+    expect(await counts()).toEqual(before)
     expect((await upload({ name: 'x', source: 'y', month: '8' }, { name: 'u.tif', data: uniformTiff(20) }, await signIn(GUIDE))).status).toBe(403)
   })
 

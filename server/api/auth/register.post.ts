@@ -10,7 +10,7 @@ import { enqueueMail } from '../../services/outbox'
  */
 export default defineEventHandler(async (event) => {
   const body = await readBodyAs(event, RegisterBody)
-  rateLimit(event, `sign-up:${clientIp(event)}`, Number(process.env.UMBRAFIELD_SIGNUP_LIMIT || 10), 3600_000)
+  await rateLimit(event, `sign-up:${clientIp(event)}`, Number(process.env.UMBRAFIELD_SIGNUP_LIMIT || 10), 3600_000)
   const appUrl = useRuntimeConfig(event).public.appUrl
   const passwordHash = await hashPassword(body.password)
   try {

@@ -7,7 +7,7 @@ const Query = z.object({ q: z.string({ error: 'q is required' }).trim().min(2, '
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'organiser', 'guide')
   const { q } = queryAs(event, Query)
-  rateLimit(event, `places:${clientIp(event)}`, 120, 60_000)
+  await rateLimit(event, `places:${clientIp(event)}`, 120, 60_000)
   const data = searchPlaces(q)
   return { data, meta: { total: data.length } }
 })

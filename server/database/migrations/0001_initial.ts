@@ -1,17 +1,18 @@
 import { sql, type Kysely } from 'kysely'
+import { idColumn, idColumnType, nowIsoDefault } from '../dialect'
 
 export async function up(db: Kysely<unknown>): Promise<void> {
   await db.schema.createTable('users')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('email', 'text', (c) => c.notNull().unique())
     .addColumn('name', 'text', (c) => c.notNull())
     .addColumn('password_hash', 'text', (c) => c.notNull())
     .addColumn('role', 'text', (c) => c.notNull().check(sql`role in ('traveller','guide','organiser')`))
-    .addColumn('created_at', 'text', (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn('created_at', 'text', (c) => c.notNull().defaultTo(nowIsoDefault(db)))
     .execute()
   await db.schema.createTable('audit_log')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
-    .addColumn('at', 'text', (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn('id', idColumnType(db), idColumn(db))
+    .addColumn('at', 'text', (c) => c.notNull().defaultTo(nowIsoDefault(db)))
     .addColumn('action', 'text', (c) => c.notNull())
     .addColumn('actor_user_id', 'integer', (c) => c.references('users.id').onDelete('set null'))
     .addColumn('subject_user_id', 'integer', (c) => c.references('users.id').onDelete('set null'))
@@ -19,7 +20,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('detail', 'text')
     .execute()
   await db.schema.createTable('sign_in_failures')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('email', 'text', (c) => c.notNull())
     .addColumn('ip', 'text', (c) => c.notNull())
     .addColumn('at', 'text', (c) => c.notNull())

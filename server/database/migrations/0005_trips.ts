@@ -1,10 +1,10 @@
 import { sql, type Kysely } from 'kysely'
-
-const now = sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`
+import { doubleType, idColumn, idColumnType, nowIsoDefault } from '../dialect'
 
 export async function up(db: Kysely<unknown>): Promise<void> {
+  const now = nowIsoDefault(db)
   await db.schema.createTable('trips')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('workspace_id', 'integer', (c) => c.notNull().references('workspaces.id'))
     .addColumn('eclipse_id', 'text', (c) => c.notNull())
     .addColumn('primary_site_id', 'integer', (c) => c.notNull().references('sites.id'))
@@ -13,8 +13,8 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('start_date', 'text', (c) => c.notNull())
     .addColumn('end_date', 'text', (c) => c.notNull())
     .addColumn('meeting_name', 'text', (c) => c.notNull())
-    .addColumn('meeting_lat', 'real', (c) => c.notNull())
-    .addColumn('meeting_lon', 'real', (c) => c.notNull())
+    .addColumn('meeting_lat', doubleType(db), (c) => c.notNull())
+    .addColumn('meeting_lon', doubleType(db), (c) => c.notNull())
     .addColumn('meeting_time_utc', 'text', (c) => c.notNull())
     .addColumn('seats', 'integer', (c) => c.notNull().check(sql`seats > 0`))
     .addColumn('price_minor', 'integer', (c) => c.notNull().check(sql`price_minor >= 0`))
@@ -40,7 +40,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addPrimaryKeyConstraint('trip_guides_pk', ['trip_id', 'user_id'])
     .execute()
   await db.schema.createTable('bookings')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('trip_id', 'integer', (c) => c.notNull().references('trips.id'))
     .addColumn('user_id', 'integer', (c) => c.notNull().references('users.id'))
     .addColumn('seats', 'integer', (c) => c.notNull().check(sql`seats > 0`))
@@ -58,7 +58,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
   await db.schema.createIndex('bookings_trip_status').on('bookings').columns(['trip_id', 'status']).execute()
   await db.schema.createIndex('bookings_user').on('bookings').column('user_id').execute()
   await db.schema.createTable('payments')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('booking_id', 'integer', (c) => c.notNull().references('bookings.id'))
     .addColumn('kind', 'text', (c) => c.notNull().check(sql`kind in ('deposit','balance')`))
     .addColumn('amount_minor', 'integer', (c) => c.notNull())
@@ -72,7 +72,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('completed_at', 'text')
     .execute()
   await db.schema.createTable('refunds')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('booking_id', 'integer', (c) => c.notNull().references('bookings.id'))
     .addColumn('payment_id', 'integer', (c) => c.references('payments.id'))
     .addColumn('amount_minor', 'integer', (c) => c.notNull())
@@ -94,7 +94,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('customer_id', 'text', (c) => c.notNull())
     .execute()
   await db.schema.createTable('waitlist')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('trip_id', 'integer', (c) => c.notNull().references('trips.id'))
     .addColumn('user_id', 'integer', (c) => c.notNull().references('users.id'))
     .addColumn('seats', 'integer', (c) => c.notNull().check(sql`seats > 0`))

@@ -1,8 +1,9 @@
 import { sql, type Kysely } from 'kysely'
+import { idColumn, idColumnType, nowIsoDefault } from '../dialect'
 
 export async function up(db: Kysely<unknown>): Promise<void> {
   await db.schema.createTable('outbox')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     // RFC 5322 Message-ID, fixed at enqueue time, so a resend after a crash is recognisably the same message.
     .addColumn('message_id', 'text', (c) => c.notNull().unique())
     // Deduplicates scheduled mail (e.g. one balance reminder per booking and threshold).
@@ -20,7 +21,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('last_error', 'text')
     .addColumn('booking_id', 'integer', (c) => c.references('bookings.id').onDelete('set null'))
     .addColumn('trip_id', 'integer', (c) => c.references('trips.id').onDelete('set null'))
-    .addColumn('created_at', 'text', (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+    .addColumn('created_at', 'text', (c) => c.notNull().defaultTo(nowIsoDefault(db)))
     .addColumn('sending_since', 'text')
     .addColumn('sent_at', 'text')
     .execute()

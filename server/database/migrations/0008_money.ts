@@ -1,4 +1,5 @@
 import { sql, type Kysely } from 'kysely'
+import { idColumn, idColumnType } from '../dialect'
 
 /**
  * Money that always adds up, and confirmed e-mail addresses:
@@ -25,7 +26,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('used_at', 'text')
     .execute()
   await db.schema.createTable('reconciliation_items')
-    .addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+    .addColumn('id', idColumnType(db), idColumn(db))
     .addColumn('run_at', 'text', (c) => c.notNull())
     .addColumn('booking_id', 'integer', (c) => c.references('bookings.id'))
     .addColumn('payment_id', 'integer', (c) => c.references('payments.id'))

@@ -8,6 +8,7 @@ import * as m0006 from './0006_outbox'
 import * as m0007 from './0007_filter_margins'
 import * as m0008 from './0008_money'
 import * as m0009 from './0009_session_version'
+import * as m0010 from './0010_cluster'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -20,4 +21,5 @@ export const migrations: Record<string, Migration> = {
   '0007_filter_margins': m0007,
   '0008_money': m0008,
   '0009_session_version': m0009,
+  '0010_cluster': m0010,
 }

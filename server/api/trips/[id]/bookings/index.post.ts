@@ -11,7 +11,7 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, IdParams)
   const { seats } = await readBodyAs(event, BookingCreate)
-  rateLimit(event, `hold:${user.id}`, Number(process.env.UMBRAFIELD_HOLD_LIMIT || 10), 10 * 60_000)
+  await rateLimit(event, `hold:${user.id}`, Number(process.env.UMBRAFIELD_HOLD_LIMIT || 10), 10 * 60_000)
   try {
     const hold = await createHold(useDb(), user, id, seats, bookingConfig())
     setResponseStatus(event, 201)

@@ -1,8 +1,8 @@
 import { tile, TILE_MAX_ZOOM } from '../../../../services/tiles'
 
 /** GET /tiles/{z}/{x}/{y}.pbf — basemap vector tiles. */
-export default defineEventHandler((event) => {
-  rateLimit(event, `tiles:${clientIp(event)}`, Number(process.env.UMBRAFIELD_TILE_LIMIT || 3000), 60_000)
+export default defineEventHandler(async (event) => {
+  await rateLimit(event, `tiles:${clientIp(event)}`, Number(process.env.UMBRAFIELD_TILE_LIMIT || 3000), 60_000)
   const { z, x, y } = getRouterParams(event)
   const m = /^(\d+)\.pbf$/.exec(y ?? '')
   const zi = Number(z), xi = Number(x)
