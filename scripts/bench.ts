@@ -1,4 +1,4 @@
-// npm run --silent bench -- <engine|elements|sites|climatology|tiles|booking|all>   — speed figures as ratios measured in one run (never in tests).
+// npm run --silent bench -- <engine|elements|sites|climatology|tiles|booking|all|cluster>   — speed figures as ratios measured in one run (never in tests).
 import * as Astronomy from 'astronomy-engine'
 import autocannon from 'autocannon'
 import { spawn } from 'node:child_process'
@@ -6,6 +6,7 @@ import { existsSync, mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { performance } from 'node:perf_hooks'
+import pg from 'pg'
 import { NO_CLIMATOLOGY } from '../shared/schemas/sites'
 import { siteMetrics } from '../server/services/planning'
 import { cloudAt, parseCsvGrid } from '../server/services/climatology'
@@ -206,8 +207,90 @@ async function booking() {
   }
 }
 
+/**
+ * Two app instances on one throwaway PostgreSQL, 200 travellers asking at once for one seat each of a
+ * 50-seat trip, the requests split across both instances. Exactly 50 may be held; the last line says
+ * how many seats were sold beyond the trip's size ("oversold 0" is the only right answer).
+ */
+async function cluster() {
+  if (!existsSync('.output/server/index.mjs')) throw new Error('no build: run "npx nuxt build" first')
+  const { startPostgres } = await import('./pg-cluster.mjs')
+  const pgc = await startPostgres()
+  const db = new pg.Client(pgc.url)
+  await db.connect()
+  await db.query('create database bench')
+  await db.end()
+  const url = pgc.url.replace(/\/postgres$/, '/bench')
+  const children: ReturnType<typeof spawn>[] = []
+  const base = 3900 + Math.floor(Math.random() * 80)
+  const env = {
+    ...process.env, DATABASE_URL: url, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345',
+    NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${base}`, UMBRAFIELD_SIGNUP_LIMIT: '100000', UMBRAFIELD_HOLD_LIMIT: '100000', NUXT_BACKUPS: 'off',
+    // The racers come through a trusted proxy from their own addresses, as a real crowd would.
+    NUXT_TRUSTED_PROXIES: '127.0.0.1',
+  }
+  const bases = [0, 1].map((i) => `http://127.0.0.1:${base + i}`)
+  try {
+    for (const [i, b] of bases.entries()) {
+      children.push(spawn(process.execPath, ['.output/server/index.mjs'], { env: { ...env, PORT: String(base + i) }, stdio: 'ignore' }))
+      for (let k = 0; k < 300; k++) {
+        try { if ((await fetch(`${b}/api/health`)).ok) break } catch { /* starting */ }
+        await new Promise((r) => setTimeout(r, 200))
+      }
+    }
+    const post = (b: string, path: string, body: unknown, cookie = '', from = '198.51.100.1') => fetch(`${b}${path}`, { method: 'POST', headers: { 'content-type': 'application/json', cookie, 'x-forwarded-for': from }, body: JSON.stringify(body) })
+    const addr = (i: number) => `10.${Math.floor(i / 250)}.${i % 250}.7`
+    const cookieOf = (r: Response) => r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    const org = cookieOf(await post(bases[0]!, '/api/auth/login', { email: 'organiser@umbrafield.test', password: 'eclipse-demo' }))
+    const trip = await (await post(bases[0]!, '/api/trips', {
+      workspaceId: 1, primarySiteId: 4, title: 'Cluster bench trip', startDate: '2027-07-31', endDate: '2027-08-03', seats: 50, priceMinor: 1000, depositMinor: 100,
+      currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'x', lat: 25.7, lon: 32.6, time: '2027-08-02T03:30:00Z' },
+    }, org)).json() as { id: number }
+    await post(bases[0]!, `/api/trips/${trip.id}/publish`, {}, org)
+    // 200 travellers: signed up through the app, addresses confirmed directly in the database (the
+    // bench has no inbox to click through), signed in on the instance they will book through.
+    const n = 200
+    const emails = Array.from({ length: n }, (_, i) => `racer${i}@bench.test`)
+    const inBatches = async <T>(items: T[], size: number, f: (x: T, i: number) => Promise<unknown>) => {
+      for (let i = 0; i < items.length; i += size) await Promise.all(items.slice(i, i + size).map((x, j) => f(x, i + j)))
+    }
+    await inBatches(emails, 20, (email, i) => post(bases[i % 2]!, '/api/auth/register', { name: `Racer ${i}`, email, password: 'bench-password-123' }, '', addr(i)))
+    const admin = new pg.Client(url)
+    await admin.connect()
+    await admin.query(`update users set email_confirmed_at = created_at where email like '%@bench.test'`)
+    await admin.end()
+    const cookies: string[] = []
+    await inBatches(emails, 20, async (email, i) => { cookies[i] = cookieOf(await post(bases[i % 2]!, '/api/auth/login', { email, password: 'bench-password-123' }, '', addr(i))) })
+    const times: number[] = []
+    const statuses: number[] = []
+    await Promise.all(cookies.map(async (cookie, i) => {
+      const t = performance.now()
+      const r = await post(bases[i % 2]!, `/api/trips/${trip.id}/bookings`, { seats: 1 }, cookie, addr(i))
+      times.push(performance.now() - t)
+      statuses.push(r.status)
+      if (r.status !== 201 && r.status !== 409) console.log(`cluster: unexpected ${r.status} ${(await r.text()).slice(0, 300)}`)
+    }))
+    times.sort((a, b) => a - b)
+    const q = new pg.Client(url)
+    await q.connect()
+    const seats = Number((await q.query(`select coalesce(sum(seats), 0) as n from bookings where trip_id = $1 and status in ('held', 'confirmed')`, [trip.id])).rows[0].n)
+    await q.end()
+    const held = statuses.filter((x) => x === 201).length
+    console.log(`cluster: 2 instances on PostgreSQL, ${n} concurrent holds of one seat for a 50-seat trip, split across both → ${held} held (HTTP 201), ${statuses.filter((x) => x === 409).length} sold out (409), other ${statuses.filter((x) => x !== 201 && x !== 409).length}`)
+    console.log(`cluster: seats held in the database ${seats} of 50`)
+    console.log(`cluster p50 ${percentile(times, 50).toFixed(0)} ms, p95 ${percentile(times, 95).toFixed(0)} ms (goal: p95 < 300 ms)`)
+    console.log(`oversold ${Math.max(0, seats - 50)}`)
+  } finally {
+    for (const c of children) c.kill('SIGTERM')
+    await new Promise((r) => setTimeout(r, 500))
+    pgc.stop()
+  }
+}
+
 const what = process.argv[2] ?? 'all'
-const benches: Record<string, () => void | Promise<void>> = { engine, elements, sites, climatology, tiles, booking }
+// "cluster" starts PostgreSQL and two instances: it runs when asked for by name, not in "all".
+const benches: Record<string, () => void | Promise<void>> = { engine, elements, sites, climatology, tiles, booking, cluster }
+if (what === 'all') delete benches.cluster
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)

@@ -1,5 +1,7 @@
 // npm run demo — builds if needed, starts the local fakes and the app on a migrated, demo-seeded SQLite
 // file, prints the URLs and demo accounts, and stops everything on Ctrl-C.
+// A small cluster: DATABASE_URL=postgres://… DEMO_INSTANCES=2 npm run demo starts that many app
+// processes on PORT, PORT+1, … against the one PostgreSQL database, sharing the session secret and the fakes.
 import { spawn, spawnSync } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs'
@@ -10,6 +12,13 @@ process.chdir(root)
 const PORT = process.env.PORT || '3000'
 const DB_PATH = process.env.NUXT_DB_PATH || 'data/umbrafield.sqlite'
 const APP_URL = process.env.NUXT_PUBLIC_APP_URL || `http://localhost:${PORT}`
+const DATABASE_URL = /^postgres(ql)?:\/\//i.test(process.env.DATABASE_URL || '') ? process.env.DATABASE_URL : ''
+const INSTANCES = Math.max(1, Number(process.env.DEMO_INSTANCES || 1))
+if (INSTANCES > 1 && !DATABASE_URL) {
+  console.error('DEMO_INSTANCES > 1 needs a shared database: set DATABASE_URL=postgres://… (SQLite is for one process).')
+  process.exit(1)
+}
+const ports = Array.from({ length: INSTANCES }, (_, i) => String(Number(PORT) + i))
 
 // 1. Build when there is no build or a source file is newer than it.
 const SOURCES = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json', 'pages', 'components', 'composables', 'layouts', 'middleware', 'stores', 'server', 'shared', 'assets', 'public']
@@ -60,29 +69,37 @@ for (const f of fakes) {
   start(f.name, process.execPath, f.args, f.env)
   Object.assign(fakeEnv, f.appEnv)
 }
-start('app', process.execPath, ['.output/server/index.mjs'], {
+const appEnv = {
   ...fakeEnv,
-  PORT, NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+  NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+  ...(DATABASE_URL ? { DATABASE_URL } : {}),
   // The demo's accounts share a published password: it listens on this machine only.
   NITRO_HOST: process.env.HOST || '127.0.0.1',
-})
+}
 
-// 4. Wait until the app answers, then say where everything is.
-const deadline = Date.now() + 90_000
-for (;;) {
-  try {
-    const r = await fetch(`http://127.0.0.1:${PORT}/api/health`)
-    if (r.ok) break
-  } catch { /* not up yet */ }
-  if (Date.now() > deadline) { console.error('The app did not start within 90 s.'); stop(1) }
-  await new Promise((r) => setTimeout(r, 300))
+// 4. Start the app (the first instance migrates and seeds; the others start once it answers), and
+// wait until each answers before saying where everything is.
+async function waitFor(port) {
+  const deadline = Date.now() + 90_000
+  for (;;) {
+    try {
+      const r = await fetch(`http://127.0.0.1:${port}/api/health`)
+      if (r.ok) return
+    } catch { /* not up yet */ }
+    if (Date.now() > deadline) { console.error(`The app on port ${port} did not start within 90 s.`); stop(1) }
+    await new Promise((r) => setTimeout(r, 300))
+  }
+}
+for (const [i, port] of ports.entries()) {
+  start(INSTANCES > 1 ? `app ${i + 1}` : 'app', process.execPath, ['.output/server/index.mjs'], { ...appEnv, PORT: port })
+  await waitFor(port)
 }
 console.log(`
   Umbrafield demo is running (demo data: an invented company, Kestrel Sky Journeys)
 
-  App            ${APP_URL}
+  App            ${APP_URL}${INSTANCES > 1 ? `\n${ports.map((p, i) => `  Instance ${i + 1}     http://localhost:${p}`).join('\n')}` : ''}
 ${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
-  Database       ${DB_PATH}
+  Database       ${DATABASE_URL ? `PostgreSQL ${DATABASE_URL.replace(/\/\/[^@/]*@/, '//')}` : DB_PATH}
 
   Demo accounts (password: eclipse-demo)
     organiser@umbrafield.test   organiser

@@ -1,6 +1,7 @@
 import { readdirSync, rmSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { backupDatabase } from '../database/connection'
+import { isPostgresUrl } from '../database/dialect'
 
 /**
  * A rolling nightly backup: an online copy (VACUUM INTO) once a day into data/backups/ beside the
@@ -10,6 +11,8 @@ import { backupDatabase } from '../database/connection'
 const DAY_MS = 24 * 3600_000
 export default defineNitroPlugin((nitro) => {
   if (process.env.NUXT_BACKUPS === 'off') return
+  // PostgreSQL is backed up by its operator (pg_dump, or the managed service's snapshots).
+  if (isPostgresUrl(process.env.DATABASE_URL)) return
   const dir = resolve(process.env.NUXT_BACKUP_DIR || join(dirname(resolve(useRuntimeConfig().dbPath)), 'backups'))
   const keep = Number(process.env.NUXT_BACKUP_KEEP || 7)
   const run = async () => {

@@ -35,11 +35,12 @@ export type BookingConfig = MoneyConfig
 /** Marks lapsed holds expired, expires stale waitlist offers, then offers freed seats to the waitlist. */
 export async function releaseLapsed(trx: Db, tripId: number, cfg: BookingConfig): Promise<void> {
   const now = iso()
-  await trx.updateTable('bookings').set({ status: 'expired', updated_at: now })
-    .where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', now).execute()
-  await trx.updateTable('waitlist').set({ status: 'expired' })
-    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '<=', now).execute()
-  await offerWaitlist(trx, tripId, cfg)
+  const holds = await trx.updateTable('bookings').set({ status: 'expired', updated_at: now })
+    .where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', now).executeTakeFirst()
+  const offers = await trx.updateTable('waitlist').set({ status: 'expired' })
+    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '<=', now).executeTakeFirst()
+  // Nothing lapsed, nothing freed: the waitlist was offered what was free when seats last came back.
+  if (Number(holds.numUpdatedRows) + Number(offers.numUpdatedRows) > 0) await offerWaitlist(trx, tripId, cfg)
 }
 
 /** Offers free seats to the waitlist, first come first served, each offer for a limited time. */
@@ -63,6 +64,17 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
 /** Holds seats for 15 minutes (or the configured hold), atomically. */
 export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
   if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
+  // Sold out already, even before lapsed holds are let go? Then say so without queueing for the trip's
+  // lock (the rush after sales open is mostly these). A seat freed a moment later is a benign race:
+  // the answer is what an instant earlier would have been; no seat is ever handed out here.
+  const pre = await db.selectFrom('trips').select(['seats', 'status']).where('id', '=', tripId).executeTakeFirst()
+  if (pre && pre.status === 'published') {
+    const use = await seatUse(db, tripId, iso(), user.id)
+    const lapsed = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', iso()).limit(1).executeTakeFirst()
+    // A traveller who already holds seats here is told so (below), not that the trip is full.
+    const mine = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').limit(1).executeTakeFirst()
+    if (!lapsed && !mine && pre.seats - use.taken - use.offered <= 0) throw new SoldOutError(0)
+  }
   return db.transaction().execute(async (trx) => {
     const trip = await lockTripRow(trx, tripId)
     if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
