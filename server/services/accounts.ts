@@ -1,5 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto'
-import type { Kysely, Transaction } from 'kysely'
+import { sql, type Kysely, type Transaction } from 'kysely'
+import { isPostgres } from '../database/dialect'
 import type { Database, Role, User } from '../database/schema'
 import { audit } from './audit'
 import { confirmEmailMail } from './mailTemplates'
@@ -23,6 +24,13 @@ const delaySec = (failures: number, free: number) => (failures < free ? 0 : Math
 /** Checks the backoff for `key` (an e-mail, or "password:<user id>") and `ip`, then records this attempt. */
 export async function beginAttempt(db: Kysely<Database>, key: string, ip: string): Promise<void> {
   await db.transaction().execute(async (trx) => {
+    // Count-then-record must not interleave, or parallel guesses all see the same count and pass.
+    // SQLite: BEGIN IMMEDIATE already serialises writers. PostgreSQL (several instances): advisory
+    // locks on the account key and the address for this transaction, always in that order.
+    if (isPostgres(trx)) {
+      await sql`select pg_advisory_xact_lock(hashtext(${`sign-in key:${key}`}))`.execute(trx)
+      await sql`select pg_advisory_xact_lock(hashtext(${`sign-in ip:${ip}`}))`.execute(trx)
+    }
     const now = Date.now()
     const since = new Date(now - THROTTLE.windowMin * 60_000).toISOString()
     const stats = async (col: 'email' | 'ip', value: string) => {
