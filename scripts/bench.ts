@@ -261,6 +261,16 @@ async function cluster() {
     await admin.end()
     const cookies: string[] = []
     await inBatches(emails, 20, async (email, i) => { cookies[i] = cookieOf(await post(bases[i % 2]!, '/api/auth/login', { email, password: 'bench-password-123' }, '', addr(i))) })
+    if (process.env.BENCH_PROBE) {
+      const probe: number[] = []
+      await Promise.all(cookies.map(async (cookie, i) => {
+        const t = performance.now()
+        await (await fetch(`${bases[i % 2]!}${process.env.BENCH_PROBE}`, { headers: { cookie, 'x-forwarded-for': addr(i) } })).text()
+        probe.push(performance.now() - t)
+      }))
+      probe.sort((a, b) => a - b)
+      console.log(`cluster probe ${process.env.BENCH_PROBE}: p50 ${percentile(probe, 50).toFixed(0)} ms, p95 ${percentile(probe, 95).toFixed(0)} ms`)
+    }
     const times: number[] = []
     const statuses: number[] = []
     await Promise.all(cookies.map(async (cookie, i) => {

@@ -10,25 +10,26 @@ import { enqueueMail } from './outbox'
 type Db = Kysely<Database> | Transaction<Database>
 
 /** What is seen at the trip's primary site, so a booking e-mail's safety text fits an annular trip too. */
-async function tripKind(db: Db, t: { eclipse_id: string; primary_site_id: number }): Promise<LocalKind> {
+export async function tripKind(db: Db, t: { eclipse_id: string; primary_site_id: number }): Promise<LocalKind> {
   const site = await db.selectFrom('sites').select(['lat', 'lon', 'elevation_m']).where('id', '=', t.primary_site_id).executeTakeFirstOrThrow()
   const { el, deltaTOverride } = await elementsInForce(db as Kysely<Database>, t.eclipse_id)
   return localKindOf(localReport(t.eclipse_id, el, { latDeg: site.lat, lonDeg: site.lon, elevationM: site.elevation_m }, deltaTOverride).type)
 }
 
-async function data(db: Db, bookingId: number, appUrl: string) {
+async function data(db: Db, bookingId: number, appUrl: string, known?: { kind: LocalKind }) {
   const b = await db.selectFrom('bookings').selectAll().where('id', '=', bookingId).executeTakeFirstOrThrow()
   const u = await db.selectFrom('users').select(['name', 'email']).where('id', '=', b.user_id).executeTakeFirstOrThrow()
   const t = await db.selectFrom('trips').select(['id', 'title', 'balance_due_date', 'eclipse_id', 'primary_site_id']).where('id', '=', b.trip_id).executeTakeFirstOrThrow()
   return {
     b, u, t,
     d: {
-      eclipseKind: await tripKind(db, t), name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
+      eclipseKind: known?.kind ?? await tripKind(db, t), name: u.name, tripTitle: t.title, seats: b.seats, currency: b.currency, priceMinor: b.price_minor, paidMinor: b.paid_minor, dueMinor: dueOf(b), bookingUrl: `${appUrl}/bookings/${b.id}` },
   }
 }
 
-export async function mailBookingHeld(db: Db, bookingId: number, appUrl: string) {
-  const { b, u, d } = await data(db, bookingId, appUrl)
+/** `known.kind` may be worked out before the caller's transaction (holds keep their trip lock short). */
+export async function mailBookingHeld(db: Db, bookingId: number, appUrl: string, known?: { kind: LocalKind }) {
+  const { b, u, d } = await data(db, bookingId, appUrl, known)
   await enqueueMail(db, { kind: 'booking-held', to: { email: u.email, name: u.name }, bookingId, tripId: b.trip_id, ...T.bookingHeld({ ...d, holdExpiresAt: b.hold_expires_at!, depositMinor: b.deposit_minor }) })
 }
 

@@ -4,7 +4,8 @@ import { refundPctOn } from '../../shared/schemas/trips'
 import { businessDate } from './clock'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
-import { mailBookingHeld, mailWaitlistOffer } from './bookingMail'
+import { isPostgres } from '../database/dialect'
+import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
@@ -75,7 +76,9 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     const mine = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').limit(1).executeTakeFirst()
     if (!lapsed && !mine && pre.seats - use.taken - use.offered <= 0) throw new SoldOutError(0)
   }
-  return db.transaction().execute(async (trx) => {
+  // What the held e-mail says about the eclipse seen at the trip's site, worked out before the lock.
+  const kind = pre ? await tripKind(db, await db.selectFrom('trips').select(['eclipse_id', 'primary_site_id']).where('id', '=', tripId).executeTakeFirstOrThrow()) : undefined
+  return holdGate(db, () => db.transaction().execute(async (trx) => {
     const trip = await lockTripRow(trx, tripId)
     if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
     await releaseLapsed(trx, tripId, cfg)
@@ -94,9 +97,31 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     await trx.updateTable('waitlist').set({ status: 'accepted', booking_id: b.id })
       .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').execute()
     await audit(trx, { action: 'booking_hold', actorUserId: user.id, detail: { bookingId: b.id, tripId, seats } })
-    await mailBookingHeld(trx, b.id, cfg.appUrl)
+    await mailBookingHeld(trx, b.id, cfg.appUrl, kind ? { kind } : undefined)
     return { id: b.id, status: 'held' as const, holdExpiresAt }
-  })
+  }))
+}
+
+/**
+ * At most a few hold transactions of this instance wait on trip locks at once (PostgreSQL): a
+ * transaction queued on a row lock keeps a pooled connection, and a rush of them would leave none
+ * for everything else (sign-ins, pages, the sold-out answers above). Others queue here, in memory.
+ * SQLite runs one transaction at a time anyway.
+ */
+const HOLD_SLOTS = Math.max(1, Number(process.env.UMBRAFIELD_HOLD_SLOTS || 3))
+let holdsRunning = 0
+const holdQueue: Array<() => void> = []
+async function holdGate<T>(db: Kysely<Database>, run: () => Promise<T>): Promise<T> {
+  if (!isPostgres(db)) return run()
+  if (holdsRunning >= HOLD_SLOTS) await new Promise<void>((r) => holdQueue.push(r))
+  else holdsRunning++
+  try {
+    return await run()
+  } finally {
+    const next = holdQueue.shift()
+    if (next) next()
+    else holdsRunning--
+  }
 }
 
 /** Changes the seat count of the caller's active hold (seats re-checked, deposit and price follow). */

@@ -63,6 +63,8 @@ describe('money that adds up', () => {
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(b.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
     await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed')
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(a.body.url)}/complete`, { outcome: 'succeeded', force: true })).ok).toBe(true)
+    // Its webhook arrives when it arrives: wait for the second payment to reach the ledger.
+    await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.ledger.entries.filter((e: { type: string }) => e.type === 'payment').length === 2)
     const view = await expectLedgerMatchesStripe(hold.body.id, trav, 40_000, [a.body.url, b.body.url])
     expect(view.paidMinor).toBe(40_000)
     expect(view.status).toBe('confirmed')
