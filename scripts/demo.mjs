@@ -105,6 +105,7 @@ ${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
     organiser@umbrafield.test   organiser
     guide@umbrafield.test       guide
     traveller@umbrafield.test   traveller
+    traveller2@umbrafield.test  traveller with a confirmed Luxor booking (open its briefing)
 
   New accounts confirm their address through the link in the mail inbox above before they can hold seats.
   Demo trips: Luxor (total eclipse, 2027-08-02) and Punta del Este (annular eclipse, 2027-02-06).

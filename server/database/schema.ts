@@ -148,6 +148,8 @@ export interface TripsTable {
   /** Margins of the filters-off window: σ multiples and extra seconds before C3 (never below 2 and 5). */
   filter_margin_sigmas: ColumnType<number, number | undefined, number>
   filter_margin_end_sec: ColumnType<number, number | undefined, number>
+  /** JSON array of the briefing's "what to bring" lines, or null for the default list. */
+  briefing_checklist: ColumnType<string | null, string | null | undefined, string | null>
   created_by: number | null
   created_at: Created
 }

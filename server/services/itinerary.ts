@@ -5,6 +5,7 @@ import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { dueOf } from './dues'
 import { contactEvents, toIcs } from './calendar'
+import { checklistOf } from './briefing'
 import * as T from './mailTemplates'
 import { enqueueMail, type OutgoingMail } from './outbox'
 import { zoneAt } from './planning'
@@ -36,7 +37,7 @@ export async function itineraryMails(db: Kysely<Database>, tripId: number, appUr
       site: { name: site.name, lat: site.lat, lon: site.lon, mapUrl: `${appUrl}/trips/${trip.id}`, zone: site.zone },
       contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: site.words.contact[k], local: site.contacts[k]!.local.slice(11), utc: site.contacts[k]!.utc.slice(11, 19) })),
       eclipseKind: site.kind, centralName: site.words.central ? site.words.central[0]!.toUpperCase() + site.words.central.slice(1) : null,
-      durationSec: site.durationSec, timeLine: site.time.line, bring: T.WHAT_TO_BRING,
+      durationSec: site.durationSec, timeLine: site.time.line, bring: checklistOf(trip.briefing_checklist), briefingUrl: `${appUrl}/trips/${trip.id}/briefing`,
       organiser: organiser ?? { name: 'Your trip organiser', email: 'trips@umbrafield.test' },
     })
     return { kind: 'itinerary', to: { email: b.uemail, name: b.uname }, bookingId: b.id, tripId, attachments: [{ filename: 'eclipse-itinerary.ics', content: ics, contentType: 'text/calendar; charset=utf-8; method=PUBLISH' }], ...mail }

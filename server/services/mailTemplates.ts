@@ -78,6 +78,8 @@ export interface ItineraryData extends BookingMailData {
   /** The time basis (TT − UTC, UT1 − UTC, ΔT) in one line. */
   timeLine: string
   bring: string[]
+  /** The participants' briefing for the trip (what they will see at the site, and when). */
+  briefingUrl: string
   organiser: { name: string; email: string }
 }
 
@@ -87,19 +89,12 @@ export function itinerary(d: ItineraryData): Mail {
     + `<h2 style="font-size:16px;margin:16px 0 6px">Meeting point</h2>` + p(`${esc(d.meeting.name)} — <strong>${esc(d.meeting.local)}</strong> local time (UTC${esc(d.meeting.utcOffset)}, ${esc(d.meeting.zone)}).`)
     + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. ${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s.` : 'A partial eclipse here: filters stay on throughout.'}`)
     + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
+    + `<h2 style="font-size:16px;margin:16px 0 6px">Your briefing</h2>` + p('What the sky will do at the site, minute by minute, where to look, and the corona to expect:') + button(d.briefingUrl, 'Read your briefing')
     + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
     + safetyHtml(d.eclipseKind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
-  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
+  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nYOUR BRIEFING\nWhat the sky will do at the site, minute by minute, where to look, and the corona to expect:\n${d.briefingUrl}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
   return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
 }
-
-export const WHAT_TO_BRING = [
-  'Eclipse glasses or a hand-held viewer meeting ISO 12312-2 (we hand out spares, but bring your own pair)',
-  'Solar filters for the front of any camera, binoculars or telescope',
-  'Sun hat, sunscreen and at least two litres of water',
-  'A red torch for the early start',
-  'Your booking reference and passport',
-]
 
 export function confirmEmailMail(d: { name: string; url: string; hours: number }): Mail {
   return frame('Confirm your e-mail address',

@@ -1,4 +1,3 @@
-import * as Astronomy from 'astronomy-engine'
 import type { Kysely } from 'kysely'
 import { deltaTHourAngleRad } from '../../shared/eclipse/besselian'
 import { shadowApproachFromDeg } from '../../shared/eclipse/local'
@@ -9,26 +8,22 @@ import { localKindOf, phaseWords, safetyLines } from '../../shared/safety/text'
 import { localTime } from '../../shared/time/local'
 import type { Database, User } from '../database/schema'
 import { localReport, type LocalReport } from '../eclipse/report'
+import { skyAt } from '../eclipse/sky'
 import { audit } from './audit'
 import { elementsInForce } from './eclipses'
 import { NotFoundError, zoneAt } from './planning'
 import { getTripRow, isTripGuide, type TripRow } from './trips'
 
-const PLANETS: Array<[Astronomy.Body, string]> = [
-  [Astronomy.Body.Venus, 'Venus'], [Astronomy.Body.Jupiter, 'Jupiter'], [Astronomy.Body.Mercury, 'Mercury'], [Astronomy.Body.Mars, 'Mars'], [Astronomy.Body.Saturn, 'Saturn'],
-]
 export const compass = compassShort
 
-/** Planets above the horizon at an instant, with their direction (astronomy-engine, topocentric, refracted). */
-export function planetsAt(utcMs: number, lat: number, lon: number, elevationM: number) {
-  const time = Astronomy.MakeTime(new Date(utcMs))
-  const obs = new Astronomy.Observer(lat, lon, elevationM)
-  return PLANETS.map(([body, name]) => {
-    const eq = Astronomy.Equator(body, time, obs, true, true)
-    const hor = Astronomy.Horizon(time, obs, eq.ra, eq.dec, 'normal')
-    const mag = Astronomy.Illumination(body, time).mag
-    return { name, altitudeDeg: Math.round(hor.altitude), azimuthDeg: Math.round(hor.azimuth), magnitude: Math.round(mag * 10) / 10 }
-  }).filter((p) => p.altitudeDeg > 3 && p.magnitude < 2.5)
+/**
+ * Bright planets above the horizon at an instant, with their direction (full VSOP87 via astronomia,
+ * server/eclipse/sky.ts; checked against astronomy-engine in tests/unit/sky.spec.ts).
+ */
+export function planetsAt(utcMs: number, lat: number, lon: number, _elevationM: number) {
+  return skyAt(utcMs, lat, lon).filter((o) => o.kind === 'planet')
+    .map((o) => ({ name: o.name, altitudeDeg: Math.round(o.altitudeDeg), azimuthDeg: Math.round(o.azimuthDeg), magnitude: o.magnitude }))
+    .filter((p) => p.altitudeDeg > 3 && p.magnitude < 2.5)
 }
 
 /** Refused cue edits: one message per cue, naming the allowed range. */

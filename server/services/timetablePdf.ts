@@ -1,5 +1,7 @@
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
+import { skyDiagram } from '../../shared/briefing/skyDiagram'
+import type { TripBriefing } from './briefing'
 import type { timetable } from './timetable'
 
 type Timetable = Awaited<ReturnType<typeof timetable>>
@@ -11,8 +13,11 @@ const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T'
 
 const INK = '#1a1633', MUTED = '#62579b', GOLD = '#d8901b', RED = '#a8362d'
 
-/** The contact timetable as a PDF: one page per site, A4 or US Letter, Work Sans embedded. */
-export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buffer> {
+/**
+ * The contact timetable as a PDF: one page per site, A4 or US Letter, Work Sans embedded; each site's
+ * page is followed by the participants' briefing for that site when `briefings` are given.
+ */
+export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: TripBriefing[] = []): Promise<Buffer> {
   const doc = new PDFDocument({ size: paper === 'letter' ? 'LETTER' : 'A4', margin: 42, autoFirstPage: false, info: { Title: `${t.trip.title} — contact timetable`, Author: 'Umbrafield' } })
   doc.registerFont('ws', fontPath(400))
   doc.registerFont('ws-semi', fontPath(600))
@@ -95,7 +100,73 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter'): Promise<Buff
     doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
     doc.font('ws').fontSize(7.5).fillColor(MUTED)
       .text(plain(`${s.time.line} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
+    const b = briefings.find((x) => x.site.id === s.siteId)
+    if (b) briefingPage(doc, b)
   }
   doc.end()
   return done
+}
+
+/** The participants' briefing for one site: the sequence, where to look, the corona, the sky's history, what to bring, safety. */
+function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
+  doc.addPage()
+  const left = doc.page.margins.left
+  const width = doc.page.width - left - doc.page.margins.right
+  const bottom = doc.page.height - doc.page.margins.bottom
+  const room = (h: number) => { if (doc.y + h > bottom) doc.addPage() }
+  doc.font('ws-semi').fontSize(8).fillColor(MUTED).text(`UMBRAFIELD · PARTICIPANTS' BRIEFING · ${b.site.role.toUpperCase()} SITE`, left, 40)
+  doc.font('ws-bold').fontSize(16).fillColor(INK).text(`What you will see at ${b.site.name}`, left, 54, { width })
+  doc.font('ws').fontSize(9.5).fillColor(INK).text(plain(`${b.trip.title} · ${b.words.eclipseName.toLowerCase()}${b.words.central && b.durationSec ? `, ${b.words.central} ${Math.floor(b.durationSec / 60)} min ${Math.round(b.durationSec % 60)} s` : ''} · times local (UTC${b.site.utcOffset}) and UTC`), { width })
+  if (b.notice) doc.moveDown(0.3).font('ws-bold').fontSize(10).fillColor(RED).text(b.notice, { width })
+  doc.moveDown(0.5)
+  for (const st of b.steps) {
+    room(34)
+    const y = doc.y
+    doc.font('ws-semi').fontSize(9.5).fillColor(st.filters === 'off' ? RED : INK).text(st.local.slice(11), left, y, { width: 56 })
+    doc.font('ws').fontSize(7).fillColor(MUTED).text(`UTC ${st.utc.slice(11, 19)}`, left, y + 11, { width: 56 })
+    doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(`${st.title}  [filters ${st.filters}]${st.commonPractice ? '  (guides\' experience)' : ''}`), left + 62, y, { width: width - 62 })
+    doc.font('ws').fontSize(8.5).fillColor(INK).text(plain(st.text), left + 62, doc.y + 1, { width: width - 62 })
+    doc.y = Math.max(doc.y, y + 22) + 3
+  }
+  // Where to look: the same panorama as the web page, drawn with PDF primitives.
+  const sun = b.sky.sun.filter((x) => x.contact !== 'c1' && x.contact !== 'c4').map((x) => ({ label: x.contact === 'max' ? 'Max' : x.contact.toUpperCase(), altitudeDeg: x.altitudeDeg, azimuthDeg: x.azimuthDeg }))
+  const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: o.name, altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
+  const d = skyDiagram(sun, objs, { width: 640, height: 220 })
+  const k = width / d.width
+  room(d.height * k + 40)
+  doc.font('ws-bold').fontSize(11).fillColor(INK).text('Where to look', left, doc.y + 4)
+  const top = doc.y + 4
+  const X = (x: number) => left + x * k, Y = (y: number) => top + y * k
+  doc.rect(X(0), Y(0), d.width * k, d.horizonY * k).fill('#1a1633')
+  doc.rect(X(0), Y(d.horizonY), d.width * k, (d.height - d.horizonY) * k).fill('#3b3566')
+  for (const a of d.altitudes) {
+    doc.moveTo(X(0), Y(a.y)).lineTo(X(d.width), Y(a.y)).dash(2, { space: 3 }).lineWidth(0.4).strokeColor('#4a4380').stroke().undash()
+    doc.font('ws').fontSize(6.5).fillColor('#a9a2d6').text(a.label, X(4), Y(a.y) - 8)
+  }
+  doc.moveTo(X(0), Y(d.horizonY)).lineTo(X(d.width), Y(d.horizonY)).lineWidth(1).strokeColor('#d8c7a0').stroke()
+  for (const t of d.ticks) doc.font('ws').fontSize(7).fillColor('#f2ead6').text(t.label, X(t.x) - 10, Y(d.horizonY) + 5, { width: 20, align: 'center' })
+  for (const s of d.sun) {
+    doc.circle(X(s.x), Y(s.y), 5).fill('#f5c45e')
+    doc.font('ws-semi').fontSize(7.5).fillColor('#fff4d6').text(s.label, X(s.x) + 7, Y(s.y) - 10)
+  }
+  for (const o of d.objects) {
+    doc.circle(X(o.x), Y(o.y), 2).fill('#c9e3ff')
+    doc.font('ws').fontSize(7).fillColor('#c9e3ff').text(o.label, X(o.labelX), Y(o.labelY) - 9, { lineBreak: false })
+  }
+  doc.y = Y(d.height) + 4
+  doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(`Facing the Sun; altitude up, compass along the horizon. ${b.sky.sun.map((x) => `${x.label}: Sun ${x.altitudeDeg.toFixed(0)} deg up in the ${x.direction}`).join('; ')}.${d.behind.length ? ` Behind you: ${d.behind.join(', ')}.` : ''}`), left, doc.y, { width })
+  if (b.corona) { room(40); doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('The corona to expect', left); doc.font('ws').fontSize(9).text(plain(`${b.corona.words} ${b.corona.shape} ${b.corona.caveat}`), { width }) }
+  room(40)
+  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('The sky\'s history here', left)
+  doc.font('ws').fontSize(9).text(plain(`${b.weather.words}${b.weather.source ? ` Source: ${b.weather.source}.` : ''}`), { width })
+  room(20 + b.checklist.length * 12)
+  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('What to bring', left)
+  doc.font('ws').fontSize(9)
+  for (const item of b.checklist) doc.text(plain(`•  ${item}`), left, doc.y + 1, { width })
+  room(90)
+  const boxTop = doc.y + 8
+  doc.font('ws-bold').fontSize(10).fillColor(RED).text('Eye safety', left + 10, boxTop + 8)
+  doc.font('ws').fontSize(8.5).fillColor(INK)
+  for (const line of b.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
+  doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
 }

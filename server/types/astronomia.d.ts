@@ -39,3 +39,37 @@ declare module 'astronomia/data/deltat' {
   }
   export default data
 }
+declare module 'astronomia/data/vsop87Dmercury' { const data: object; export default data }
+declare module 'astronomia/data/vsop87Dvenus' { const data: object; export default data }
+declare module 'astronomia/data/vsop87Dmars' { const data: object; export default data }
+declare module 'astronomia/data/vsop87Djupiter' { const data: object; export default data }
+declare module 'astronomia/data/vsop87Dsaturn' { const data: object; export default data }
+declare module 'astronomia/coord' {
+  /** Equatorial coordinates, radians. */
+  export class Equatorial {
+    constructor(ra?: number, dec?: number)
+    ra: number
+    dec: number
+  }
+}
+declare module 'astronomia/elliptic' {
+  import type { Planet } from 'astronomia/planetposition'
+  import type { Equatorial } from 'astronomia/coord'
+  /** Apparent geocentric right ascension and declination of a planet, equator and equinox of date (Meeus ch. 33). */
+  export function position(planet: Planet, earth: Planet, jde: number): Equatorial
+}
+declare module 'astronomia/precess' {
+  import type { Equatorial } from 'astronomia/coord'
+  /** Precesses a position between epochs given in Julian years; proper motions in radians a year. */
+  export function position(eq: Equatorial, epochFrom: number, epochTo: number, mα: number, mδ: number): Equatorial
+}
+declare module 'astronomia/illum' {
+  /** Phase angle i (radians) from the Sun–planet r, Earth–planet Δ and Sun–Earth R distances (au). */
+  export function phaseAngle(r: number, Δ: number, R: number): number
+  /** Visual magnitudes, Astronomical Almanac 1984 formulas (Meeus ch. 41); i in radians. */
+  export function mercury84(r: number, Δ: number, i: number): number
+  export function venus84(r: number, Δ: number, i: number): number
+  export function mars84(r: number, Δ: number, i: number): number
+  export function jupiter84(r: number, Δ: number, i: number): number
+  export function saturn84(r: number, Δ: number, B: number, ΔU: number): number
+}

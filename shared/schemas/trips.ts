@@ -46,6 +46,23 @@ export const BookingCreate = z.object({
   seats: z.number({ error: 'seats must be a whole number' }).int('seats must be a whole number').min(1, 'at least 1 seat').max(20, 'at most 20 seats per booking'),
 })
 
+/** The default "what to bring" list of a trip's briefing (common practice of eclipse guides). */
+export const DEFAULT_CHECKLIST = [
+  'Eclipse viewers (glasses or hand viewers) that meet ISO 12312-2, one per person and a spare',
+  'A purpose-made solar filter for the front of every pair of binoculars, camera or telescope',
+  'A red torch for the dark minutes and the walk back',
+  'Water',
+  'A hat and sun cream',
+  'A folding chair or a mat',
+]
+
+export const ChecklistUpdate = z.object({
+  items: z.array(z.string({ error: 'each item is text' }).trim().min(1, 'an item cannot be empty').max(160, 'at most 160 characters an item'), { error: 'items must be a list' })
+    .min(1, 'keep at least one item').max(30, 'at most 30 items'),
+})
+
+export const BriefingQuery = z.object({ siteId: z.coerce.number({ error: 'siteId must be a site number' }).int('siteId must be a site number').positive('siteId must be a site number').optional() })
+
 export const RefundCreate = z.object({
   amountMinor: z.number({ error: 'amountMinor must be a whole number' }).int().min(1, 'refund at least 1 minor unit'),
   reason: z.string({ error: 'a reason is required' }).trim().min(3, 'a reason is required').max(500),

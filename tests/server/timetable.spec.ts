@@ -69,17 +69,26 @@ describe('contact timetable', () => {
     expect(JSON.stringify(cues)).not.toMatch(/filters off/i)
   })
 
-  it('the PDF has one page per site and contains each C2 time', async () => {
+  it('the PDF has a timetable page per site with its C2 time, each followed by that site\'s participants\' briefing', async () => {
     const cookie = await signIn(GUIDE)
     const t = await api('/api/trips/1/timetable', { cookie })
     const res = await fetch(url('/api/trips/1/timetable.pdf?paper=letter'), { headers: { cookie } })
     expect(res.headers.get('content-type')).toBe('application/pdf')
     const pages = await pdfText(await res.arrayBuffer())
-    expect(pages).toHaveLength(t.body.sites.length)
-    t.body.sites.forEach((s: { name: string; contacts: { c2: { local: string } } }, i: number) => {
-      expect(pages[i]).toContain(s.name)
-      expect(pages[i]).toContain(s.contacts.c2.local.slice(11))
-      expect(pages[i]).toContain('ISO 12312-2')
+    const timetablePages = pages.map((p, i) => ({ p, i })).filter(({ p }) => p.includes('CONTACT TIMETABLE'))
+    const briefingPages = pages.map((p, i) => ({ p, i })).filter(({ p }) => p.includes('PARTICIPANTS\' BRIEFING'))
+    expect(timetablePages).toHaveLength(t.body.sites.length)
+    expect(briefingPages).toHaveLength(t.body.sites.length)
+    t.body.sites.forEach((s: { name: string; contacts: { c2: { local: string } } }, k: number) => {
+      const { p, i } = timetablePages[k]!
+      expect(p).toContain(s.name)
+      expect(p).toContain(s.contacts.c2.local.slice(11))
+      expect(p).toContain('ISO 12312-2')
+      // The briefing for the same site comes next, before the next site's timetable.
+      const b = briefingPages[k]!
+      expect(b.i).toBeGreaterThan(i)
+      if (timetablePages[k + 1]) expect(b.i).toBeLessThan(timetablePages[k + 1]!.i)
+      expect(b.p).toContain(`What you will see at ${s.name}`)
     })
   })
 
@@ -168,7 +177,10 @@ describe('eye safety at the edge of the path and on annular trips', () => {
     // The PDF says it too.
     const res = await fetch(url(`/api/trips/${trip.body.id}/timetable.pdf`), { headers: { cookie: org } })
     const pages = await pdfText(await res.arrayBuffer())
-    expect(pages[1]).toContain('Totality here is too short to remove filters safely; keep them on.')
+    const edgePages = pages.filter((p) => p.includes('North-limit edge'))
+    // Its timetable page and its briefing both say so.
+    expect(edgePages.filter((p) => p.includes('CONTACT TIMETABLE'))[0]).toContain('Totality here is too short to remove filters safely; keep them on.')
+    expect(edgePages.filter((p) => p.includes('BRIEFING'))[0]).toContain('Totality here is too short to remove filters safely; keep them on.')
   })
 
   it('the demo annular trip says "annularity" on its page, timetable, PDF and calendar file, never "totality", and keeps filters on', async () => {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { itinerary, WHAT_TO_BRING } from '../../server/services/mailTemplates'
+import { itinerary } from '../../server/services/mailTemplates'
+import { DEFAULT_CHECKLIST } from '../../shared/schemas/trips'
 import { phaseWords, safetyLines, safetyParagraph } from '../../shared/safety/text'
 
 // The one safety text must cover what common practice asks of eclipse safety notes (from memory of
@@ -34,7 +35,7 @@ describe('the safety text', () => {
       meeting: { name: 'Lobby', local: '2027-02-06 10:00:00', utcOffset: '-03:00', zone: 'America/Montevideo' },
       site: { name: 'Punta del Este', lat: -34.96, lon: -54.94, mapUrl: 'http://x/t/2', zone: 'America/Montevideo' },
       contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).map((k) => ({ label: words.contact[k], local: '12:00:00', utc: '15:00:00' })),
-      eclipseKind: 'annular', centralName: 'Annularity', durationSec: 335, timeLine: 'Times are UTC.', bring: WHAT_TO_BRING,
+      eclipseKind: 'annular', centralName: 'Annularity', durationSec: 335, timeLine: 'Times are UTC.', bring: DEFAULT_CHECKLIST, briefingUrl: 'http://localhost:3000/trips/2/briefing',
       organiser: { name: 'O', email: 'o@x.test' },
     })
     for (const body of [m.text, m.html]) {

@@ -9,6 +9,7 @@ import * as m0007 from './0007_filter_margins'
 import * as m0008 from './0008_money'
 import * as m0009 from './0009_session_version'
 import * as m0010 from './0010_cluster'
+import * as m0011 from './0011_briefing'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -22,4 +23,5 @@ export const migrations: Record<string, Migration> = {
   '0008_money': m0008,
   '0009_session_version': m0009,
   '0010_cluster': m0010,
+  '0011_briefing': m0011,
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { IdParams } from '#shared/schemas/auth'
+import { briefing } from '../../../services/briefing'
 import { assertTimetableAccess, timetable } from '../../../services/timetable'
 import { timetablePdf } from '../../../services/timetablePdf'
 
@@ -10,7 +11,9 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsAs(event, IdParams)
   const { paper } = queryAs(event, Query)
   const t = await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
-  const pdf = await timetablePdf(t, paper)
+  // Each site's page is followed by the participants' briefing for it, to print with the timetable.
+  const briefings = await withServiceErrors(() => Promise.all(t.sites.map((s) => briefing(useDb(), id, s.siteId))))
+  const pdf = await timetablePdf(t, paper, briefings)
   setResponseHeaders(event, { 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="umbrafield-timetable-trip-${id}.pdf"` })
   return pdf
 })
