@@ -22,8 +22,8 @@ export function useTrips() {
 export function useTrip(id: Ref<number>) {
   return useFetch<TripView>(() => `/api/trips/${id.value}`, { key: computed(() => `trip:${id.value}`) })
 }
-export function useMyBookings() {
-  return useFetch<{ data: BookingView[] }>('/api/bookings', { key: 'my-bookings' })
+export function useMyBookings(opts: { immediate?: boolean } = {}) {
+  return useFetch<{ data: BookingView[] }>('/api/bookings', { key: 'my-bookings', immediate: opts.immediate ?? true })
 }
 export function useBooking(id: Ref<number>) {
   return useFetch<BookingView>(() => `/api/bookings/${id.value}`, { key: computed(() => `booking:${id.value}`) })

@@ -19,7 +19,12 @@ test('a booked traveller opens the Luxor briefing from the booking: sequence, sk
 })
 
 test('a traveller without a booking on the trip is told there is no such trip', async ({ page }) => {
-  await signInAs(page, 'traveller@umbrafield.test')
+  // A new traveller of their own (other tests book the demo travellers onto Luxor); signing in needs
+  // no confirmed address, holding seats does.
+  const email = `no-booking-${Date.now()}@umbrafield.test`
+  const made = await page.request.post('/api/auth/register', { data: { name: 'No Booking (test)', email, password: 'a-long-test-password-1' } })
+  expect(made.status()).toBe(202)
+  await signInAs(page, email, 'a-long-test-password-1')
   const res = await page.goto('/trips/1/briefing')
   expect(res?.status()).toBe(404)
 })

@@ -9,10 +9,12 @@ await useApp()
  * Who may call what: every route under server/api, for each kind of caller. "public" routes answer
  * anyone; "user" routes any signed-in person (scoped to their own rows: someone else's is a 404);
  * "staff" routes organisers and the guides assigned to the trip or workspace (another guide gets a
- * 404, a traveller a 403); "guides" routes organisers and every guide; "organiser" routes organisers only.
+ * 404, a traveller a 403); "booked" routes organisers, the trip's guides and travellers booked on the trip
+ * (the demo traveller has no booking on trip 1: a 404, as for anyone else outside it); "guides" routes
+ * organisers and every guide; "organiser" routes organisers only.
  * Denied means 401 signed out, 403 for a role that never may, 404 for a row outside the caller's reach.
  */
-type Access = 'public' | 'user' | 'staff' | 'guides' | 'organiser'
+type Access = 'public' | 'user' | 'staff' | 'booked' | 'guides' | 'organiser'
 const ROUTES: Array<[string, string, Access]> = [
   ['POST', '/api/auth/confirmation', 'user'],
   ['POST', '/api/auth/login', 'public'],
@@ -46,6 +48,8 @@ const ROUTES: Array<[string, string, Access]> = [
   ['DELETE', '/api/sites/1', 'organiser'],
   ['PATCH', '/api/sites/2', 'organiser'],
   ['POST', '/api/stripe/webhook', 'public'],
+  ['GET', '/api/trips/1/briefing', 'booked'],
+  ['PUT', '/api/trips/1/checklist', 'organiser'],
   ['GET', '/api/trips/1/bookings.csv', 'organiser'],
   ['GET', '/api/trips/1/bookings', 'organiser'],
   ['POST', '/api/trips/1/bookings', 'user'],
@@ -86,6 +90,7 @@ function expected(access: Access, caller: Caller): 'allowed' | 401 | 403 | 404 {
   if (access === 'public') return 'allowed'
   if (caller === 'signed out') return 401
   if (access === 'user' || caller === 'organiser') return 'allowed'
+  if (access === 'booked') return caller === 'guide (assigned)' ? 'allowed' : 404
   if (caller === 'traveller') return 403
   if (access === 'guides') return 'allowed'
   if (access === 'staff') return caller === 'guide (assigned)' ? 'allowed' : 404
