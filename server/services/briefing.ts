@@ -10,7 +10,7 @@ import { skyAt } from '../eclipse/sky'
 import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { NotFoundError, siteWithMetrics } from './planning'
-import { cueInputFor, timetable } from './timetable'
+import { cueInputFor, timetable, type Timetable } from './timetable'
 import { getTripRow, isTripGuide } from './trips'
 
 /**
@@ -35,9 +35,12 @@ export function checklistOf(raw: string | null): string[] {
   } catch { return [...DEFAULT_CHECKLIST] }
 }
 
-/** The briefing for one site of a trip (the primary site unless `siteId` names one of its sites). */
-export async function briefing(db: Kysely<Database>, tripId: number, siteId?: number) {
-  const tt = await timetable(db, tripId)
+/**
+ * The briefing for one site of a trip (the primary site unless `siteId` names one of its sites).
+ * `tt` is the trip's timetable when the caller has it already (the PDF builds one briefing per site).
+ */
+export async function briefing(db: Kysely<Database>, tripId: number, siteId?: number, tt?: Timetable) {
+  tt ??= await timetable(db, tripId)
   const trip = await getTripRow(db, tripId)
   const site = siteId === undefined ? tt.sites[0] : tt.sites.find((s) => s.siteId === siteId)
   if (!site) throw new NotFoundError('No such site on this trip')

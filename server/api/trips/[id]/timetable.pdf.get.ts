@@ -12,7 +12,7 @@ export default defineEventHandler(async (event) => {
   const { paper } = queryAs(event, Query)
   const t = await withServiceErrors(async () => { await assertTimetableAccess(useDb(), user, id); return timetable(useDb(), id) })
   // Each site's page is followed by the participants' briefing for it, to print with the timetable.
-  const briefings = await withServiceErrors(() => Promise.all(t.sites.map((s) => briefing(useDb(), id, s.siteId))))
+  const briefings = await withServiceErrors(() => Promise.all(t.sites.map((s) => briefing(useDb(), id, s.siteId, t))))
   const pdf = await timetablePdf(t, paper, briefings)
   setResponseHeaders(event, { 'Content-Type': 'application/pdf', 'Content-Disposition': `attachment; filename="umbrafield-timetable-trip-${id}.pdf"` })
   return pdf
