@@ -7,8 +7,9 @@ import type { Database } from '../database/schema'
  * Limits abuse-prone requests per key (sign-up per address, seat holds per account, public routes
  * per address).
  * - SQLite (the embedded, one-process set-up): a sliding window kept in this process's memory.
- * - PostgreSQL (several instances): fixed windows counted in the database (rate_limit_hits), one
- *   atomic upsert per request, so every instance sees the same count.
+ * - PostgreSQL (several instances): counted in the database (rate_limit_hits) with one atomic upsert
+ *   per request, so every instance sees the same count; a sliding window estimated from the current
+ *   and the previous fixed window.
  */
 const hits = new Map<string, number[]>()
 
@@ -34,10 +35,17 @@ async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string
   const now = Date.now()
   const start = Math.floor(now / windowMs) * windowMs
   const row = await db.insertInto('rate_limit_hits')
-    .values({ key, window_start: new Date(start).toISOString(), hits: 1, expires_at: new Date(start + windowMs).toISOString() })
+    // Kept two windows: the next window still reads this one.
+    .values({ key, window_start: new Date(start).toISOString(), hits: 1, expires_at: new Date(start + 2 * windowMs).toISOString() })
     .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', 1) })))
     .returning('hits').executeTakeFirstOrThrow()
-  if (Number(row.hits) > limit) refuse(event, Math.max(1, Math.ceil((start + windowMs - now) / 1000)))
+  // A sliding window from two fixed ones: the previous window's count, weighted by how much of it
+  // still lies within the last windowMs, plus this window's. A burst across a window boundary is
+  // still counted (plain fixed windows would let up to twice the limit through there).
+  const prev = await db.selectFrom('rate_limit_hits').select('hits').where('key', '=', key)
+    .where('window_start', '=', new Date(start - windowMs).toISOString()).executeTakeFirst()
+  const estimate = Number(row.hits) + Number(prev?.hits ?? 0) * (1 - (now - start) / windowMs)
+  if (estimate > limit) refuse(event, Math.max(1, Math.ceil((start + windowMs - now) / 1000)))
 }
 
 /** Drops expired windows (housekeeping). */
