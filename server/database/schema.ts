@@ -107,6 +107,23 @@ export interface ClimatologyDatasetsTable {
   created_at: ColumnType<string, string | undefined, never>
 }
 
+export interface TerrainModelsTable {
+  id: Generated<number>
+  workspace_id: number
+  name: string
+  lat0: number
+  lon0: number
+  dlat: number
+  dlon: number
+  nlat: number
+  nlon: number
+  min_m: number
+  max_m: number
+  heights: Buffer
+  created_by: number | null
+  created_at: ColumnType<string, string | undefined, never>
+}
+
 export interface ClimatologyGridsTable {
   dataset_id: number
   month: number
@@ -272,6 +289,7 @@ export interface Database {
   sites: SitesTable
   climatology_datasets: ClimatologyDatasetsTable
   climatology_grids: ClimatologyGridsTable
+  terrain_models: TerrainModelsTable
   trips: TripsTable
   trip_backup_sites: { trip_id: number; site_id: number; rank: number }
   trip_guides: { trip_id: number; user_id: number }

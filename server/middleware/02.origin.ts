@@ -6,7 +6,7 @@
  * so no HTML form on another site can post here. Stripe's webhook is exempt: its signature is the check.
  */
 const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
-const MULTIPART_ROUTES = [/^\/api\/climatology$/, /^\/api\/workspaces\/\d+\/sites\/import$/]
+const MULTIPART_ROUTES = [/^\/api\/climatology$/, /^\/api\/workspaces\/\d+\/(sites\/import|terrain)$/]
 
 export default defineEventHandler((event) => {
   const path = event.path.split('?')[0]!

@@ -1,10 +1,10 @@
-import { fromArrayBuffer } from 'geotiff'
 import type { Kysely, Selectable } from 'kysely'
 import Papa from 'papaparse'
 import { pClearOf, sampleGrid, type Grid } from '../../shared/climate/grid'
 import { NO_CLIMATOLOGY, type SiteCloud } from '../../shared/schemas/sites'
 import type { Database, SiteRow, User } from '../database/schema'
 import { audit } from './audit'
+import { MAX_GRID_CELLS, openGeoTiff, RasterError } from './geotiff'
 
 /** The cloud figures for a site, from the workspace's climatology (or the manual override). */
 export type CloudLookup = (site: SiteRow) => SiteCloud
@@ -12,7 +12,9 @@ export type CloudLookup = (site: SiteRow) => SiteCloud
 /** Upload limit for climatology files. */
 export const MAX_CLIMATOLOGY_BYTES = 25 * 1024 * 1024
 
-export class ClimatologyError extends Error {}
+/** A climatology file that cannot be used (a raster's own problems are the same class). */
+export const ClimatologyError = RasterError
+export type ClimatologyError = RasterError
 
 export interface DatasetMeta {
   name: string
@@ -30,8 +32,7 @@ interface ParsedGrid {
 }
 
 const blob = (a?: Float32Array) => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : null)
-/** The most cells (rows × columns × months or bands) a climatology may have: about 100 MB of float32. */
-export const MAX_GRID_CELLS = 25_000_000
+export { MAX_GRID_CELLS }
 
 const floats = (b: Buffer | null) => (b ? new Float32Array(b.buffer.slice(b.byteOffset, b.byteOffset + b.byteLength)) : undefined)
 
@@ -45,47 +46,11 @@ function checkMonth(m: number, where: string): number {
  * or a 12-band file (bands = January…December). Must be a regular lat/lon grid in EPSG:4326.
  */
 export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedGrid> {
-  let tiff
-  try {
-    tiff = await fromArrayBuffer(buf.buffer.slice(buf.byteOffset, buf.byteOffset + buf.byteLength) as ArrayBuffer)
-  } catch {
-    throw new ClimatologyError('This is not a readable GeoTIFF')
-  }
-  const image = await tiff.getImage()
-  const keys = image.getGeoKeys() ?? {}
-  if (keys.ProjectedCSTypeGeoKey || (keys.GTModelTypeGeoKey && keys.GTModelTypeGeoKey !== 2)) {
-    throw new ClimatologyError(`Wrong CRS: the grid must be geographic latitude/longitude (EPSG:4326), this one is projected (EPSG:${keys.ProjectedCSTypeGeoKey ?? '?'})`)
-  }
-  if (keys.GeographicTypeGeoKey && keys.GeographicTypeGeoKey !== 4326) {
-    throw new ClimatologyError(`Wrong CRS: expected EPSG:4326, found EPSG:${keys.GeographicTypeGeoKey}`)
-  }
-  const fd = image.getFileDirectory() as { ModelTransformation?: number[] }
-  if (fd.ModelTransformation) throw new ClimatologyError('Rotated or sheared grids are not supported: use a regular latitude/longitude grid')
-  let origin: number[], res: number[]
-  try {
-    origin = image.getOrigin()
-    res = image.getResolution()
-  } catch {
-    throw new ClimatologyError('The GeoTIFF has no georeferencing (ModelTiepoint and ModelPixelScale)')
-  }
-  const width = image.getWidth()
-  const height = image.getHeight()
-  const bands = image.getSamplesPerPixel()
+  const { image, width, height, bands, lat0, lon0, dlat, dlon, northUp, nodata } = await openGeoTiff(buf)
   if (bands !== 1 && bands !== 12) throw new ClimatologyError(`Expected 1 band (one month) or 12 bands (one per month), found ${bands}`)
   if (bands === 1 && month === undefined) throw new ClimatologyError('Choose the month this single-band file represents')
   if (bands === 1) checkMonth(month!, 'month')
-  // Capped before anything is decoded: a small compressed file can declare gigapixel bands.
-  if (width * height * bands > MAX_GRID_CELLS) throw new ClimatologyError(`The raster is too large: ${width} × ${height} × ${bands} cells; at most ${MAX_GRID_CELLS.toLocaleString('en')} (a 0.1° grid of the whole Earth for 12 months is far less)`)
-  const nodata = image.getGDALNoData()
   const rasters = await image.readRasters({ interleave: false }) as unknown as ArrayLike<number>[]
-  // Pixel-is-area: cell centres are half a pixel in from the tie point. Store rows south to north.
-  const dlon = res[0]!
-  const dlatImage = res[1]! // negative for north-up images
-  const lon0 = origin[0]! + dlon / 2
-  const firstRowLat = origin[1]! + dlatImage / 2
-  const northUp = dlatImage < 0
-  const lat0 = northUp ? firstRowLat + dlatImage * (height - 1) : firstRowLat
-  const dlat = Math.abs(dlatImage)
   const scaleAll = rasters.every((band) => {
     for (let k = 0; k < band.length; k++) { const v = band[k]!; if (v !== nodata && !Number.isNaN(v) && v > 1) return false }
     return true
@@ -105,7 +70,6 @@ export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedG
     }
     months.set(bands === 12 ? b + 1 : month!, { cloud: out })
   })
-  if (lat0 < -90 || lat0 + dlat * (height - 1) > 90 || Math.abs(lon0) > 360) throw new ClimatologyError('The grid lies outside latitude ±90°: check the CRS')
   return { format: 'geotiff', lat0, lon0, dlat, dlon, nlat: height, nlon: width, months }
 }
 
@@ -236,6 +200,25 @@ export function forgetDataset(id: number) {
 }
 
 const r1 = (v: number) => Math.round(v * 10) / 10
+
+/**
+ * P(clear) at a point, unrounded, by the same rules as {@link cloudAt} (grids in 0–360° longitudes
+ * included); null where the grid has no value. For surfaces and searches over many points.
+ */
+export function pClearSampler(g: MonthGrids): (lat: number, lon: number) => number | null {
+  const cats = g.clear && g.scattered && g.broken ? { clear: g.clear, scattered: g.scattered, broken: g.broken } : null
+  return (lat, lon) => {
+    let lonUsed = lon
+    let s = sampleGrid(g.cloud, lat, lon)
+    if (s.value === null && lon < 0) { lonUsed = lon + 360; s = sampleGrid(g.cloud, lat, lonUsed) }
+    if (s.value === null) return null
+    if (cats) {
+      const c = sampleGrid(cats.clear, lat, lonUsed).value, sc = sampleGrid(cats.scattered, lat, lonUsed).value, b = sampleGrid(cats.broken, lat, lonUsed).value
+      if (c !== null && sc !== null && b !== null) return pClearOf(s.value, { clear: c, scattered: sc, broken: b }).pClear
+    }
+    return pClearOf(s.value).pClear
+  }
+}
 
 /** Cloud figures at a point from one month's grids. */
 export function cloudAt(g: MonthGrids, lat: number, lon: number): SiteCloud {

@@ -8,6 +8,7 @@ import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
+import { siteHorizon, terrainFor, type Terrain } from './terrain'
 
 export type { SiteRow } from '../database/schema'
 export type { CloudLookup } from './climatology'
@@ -21,7 +22,8 @@ export function zoneAt(lat: number, lon: number): string {
   return findZone(lat, lon)[0] ?? 'Etc/UTC'
 }
 
-export function siteMetrics(eclipseId: string, el: BesselianElements, deltaT: number | null, s: Pick<SiteRow, 'lat' | 'lon' | 'elevation_m'>, cloud: SiteCloud): SiteMetrics {
+export function siteMetrics(eclipseId: string, el: BesselianElements, deltaT: number | null, s: Pick<SiteRow, 'lat' | 'lon' | 'elevation_m'>, cloud: SiteCloud,
+  terrain: Terrain | null = null): SiteMetrics {
   const r = localReport(eclipseId, el, { latDeg: s.lat, lonDeg: s.lon, elevationM: s.elevation_m }, deltaT)
   const zone = zoneAt(s.lat, s.lon)
   const c2 = r.c2 ? localTime(Date.parse(r.c2.utc), zone) : null
@@ -43,6 +45,7 @@ export function siteMetrics(eclipseId: string, el: BesselianElements, deltaT: nu
     lowSun: r.max ? r.max.apparentAltitudeDeg < LOW_SUN_DEG : false,
     ...cloud,
     expectedSec,
+    horizon: siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }),
   }
 }
 
@@ -96,13 +99,13 @@ export async function createWorkspace(db: Kysely<Database>, user: User, input: {
 export async function workspaceContext(db: Kysely<Database>, workspaceId: number) {
   const ws = await getWorkspace(db, workspaceId)
   const { el, deltaTOverride } = await elementsInForce(db, ws.eclipse_id)
-  return { ws, el, deltaT: deltaTOverride, cloud: await cloudLookupFor(db, ws) }
+  return { ws, el, deltaT: deltaTOverride, cloud: await cloudLookupFor(db, ws), terrain: await terrainFor(db, workspaceId) }
 }
 
 export async function listSites(db: Kysely<Database>, workspaceId: number): Promise<SiteOut[]> {
   const ctx = await workspaceContext(db, workspaceId)
   const rows = await db.selectFrom('sites').selectAll().where('workspace_id', '=', workspaceId).orderBy('id').execute()
-  return rows.map((r) => siteOut(r, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, r, ctx.cloud(r))))
+  return rows.map((r) => siteOut(r, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, r, ctx.cloud(r), ctx.terrain)))
 }
 
 function toValues(input: SiteCreateInput | SitePatchInput) {
@@ -191,5 +194,5 @@ export async function deleteSite(db: Kysely<Database>, id: number): Promise<void
 export async function siteWithMetrics(db: Kysely<Database>, id: number): Promise<SiteOut> {
   const row = await getSite(db, id)
   const ctx = await workspaceContext(db, row.workspace_id)
-  return siteOut(row, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, row, ctx.cloud(row)))
+  return siteOut(row, siteMetrics(ctx.ws.eclipse_id, ctx.el, ctx.deltaT, row, ctx.cloud(row), ctx.terrain))
 }

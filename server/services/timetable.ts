@@ -9,9 +9,13 @@ import { localTime } from '../../shared/time/local'
 import type { Database, User } from '../database/schema'
 import { localReport, type LocalReport } from '../eclipse/report'
 import { skyAt } from '../eclipse/sky'
+import { haversineKm } from '../../shared/geo/distance'
+import { chaseOrder } from '../../shared/planning/chase'
 import { audit } from './audit'
+import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
-import { NotFoundError, zoneAt } from './planning'
+import { getWorkspace, NotFoundError, zoneAt } from './planning'
+import { siteHorizon, terrainFor, terrainWarnings } from './terrain'
 import { getTripRow, isTripGuide, type TripRow } from './trips'
 
 export const compass = compassShort
@@ -75,7 +79,10 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
   const rows = await tripSites(db, trip)
   const { el, deltaTOverride } = await elementsInForce(db, trip.eclipse_id)
   const offsets = offsetsOf(trip)
-  const sites = rows.map((s, i) => {
+  const cloud = await cloudLookupFor(db, await getWorkspace(db, trip.workspace_id))
+  const terrain = await terrainFor(db, trip.workspace_id)
+  const primary = rows[0]!
+  const unordered = rows.map((s, i) => {
     const r = localReport(trip.eclipse_id, el, { latDeg: s.lat, lonDeg: s.lon, elevationM: s.elevation_m }, deltaTOverride)
     const zone = zoneAt(s.lat, s.lon)
     const contact = (k: CueAnchor) => {
@@ -92,6 +99,8 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const planets = contacts.max ? planetsAt(Date.parse(contacts.max.utc), s.lat, s.lon, s.elevation_m) : []
     const plan = planCues(cueInputFor(el, r, trip, offsets, planets))
     const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(c.utcMs, zone) }))
+    const pClear = cloud(s).pClear
+    const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m })
     return {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(Date.now(), zone).utcOffset,
@@ -99,8 +108,19 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       contacts, cues, notice: plan.notice,
       filtersOffWindow: plan.window ? { startUtc: isoTenths(plan.window.startMs), endUtc: isoTenths(plan.window.endMs) } : null,
       planets, safety: safetyLines(kind), deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
+      /** The chase figures: expected seen seconds and the straight-line distance from the primary site. */
+      chase: {
+        pClear, expectedSec: pClear === null ? null : Math.round(r.durationSec * pClear * 10) / 10, durationSec: r.durationSec,
+        distanceKm: Math.round(haversineKm(primary.lat, primary.lon, s.lat, s.lon) * 10) / 10, rank: i,
+      },
+      horizon: horizon ? { c2: horizon.c2, max: horizon.max, c3: horizon.c3, source: horizon.source, observerHeightM: horizon.observerHeightM } : null,
+      terrainWarnings: terrainWarnings(horizon),
     }
   })
+  // The fallback list is the chase plan, not the order the sites were typed in.
+  const backups = chaseOrder(unordered.slice(1).map((x) => ({ ...x, ...x.chase })))
+  const sites = [unordered[0]!, ...backups.map((b) => unordered.find((x) => x.siteId === b.siteId)!)]
+  sites.forEach((x, i) => { x.chase.rank = i })
   const primaryKind = sites[0]?.kind ?? 'partial'
   return {
     trip: {

@@ -34,6 +34,9 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     doc.font('ws-bold').fontSize(18).fillColor(INK).text(s.name, left, 54, { width: headW })
     doc.font('ws').fontSize(10).fillColor(INK).text(`${t.trip.title} · eclipse of ${t.trip.eclipseId}`, { width: headW })
     doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationM} m · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
+    if (s.role === 'backup') {
+      doc.text(plain(`Fallback ${s.chase.rank} of ${t.sites.length - 1}${s.chase.expectedSec !== null ? ` · ${s.chase.expectedSec.toFixed(0)} s expected seen` : ''} · ${s.chase.distanceKm.toFixed(0)} km from ${t.sites[0]!.name} (straight line)`), { width: headW })
+    }
     doc.moveDown(0.4)
     doc.font('ws-semi').fontSize(11).fillColor(INK)
       .text(`${s.words.eclipseName}${s.words.central ? ` — ${s.words.central}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'}` : ''} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`, { width: headW })
@@ -74,9 +77,14 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     doc.font('ws').fontSize(7).fillColor(MUTED).text('zenith up', cx - 16, cy - r - 12)
     doc.text('Sun, as seen', cx - 20, cy + r + 4)
 
-    // Cues
+    // Terrain warnings
     y = tableBottom + 8
-    doc.font('ws-bold').fontSize(12).fillColor(INK).text('Cues', left, y)
+    for (const w of s.terrainWarnings) {
+      doc.font('ws-bold').fontSize(9).fillColor(RED).text(plain(`Terrain: ${w}`), left, y, { width })
+      y = doc.y + 4
+    }
+    // Cues
+    doc.font('ws-bold').fontSize(12).fillColor(INK).text('Cues', left, y + (s.terrainWarnings.length ? 4 : 0))
     y = doc.y + 4
     if (s.notice) {
       doc.font('ws-bold').fontSize(10).fillColor(RED).text(s.notice, left, y, { width })

@@ -106,6 +106,37 @@ export interface SiteMetrics extends SiteCloud {
   lowSun: boolean
   /** durationSec × pClear, or null without cloud data. */
   expectedSec: number | null
+  /** The terrain horizon in the Sun's direction, or null when no uploaded terrain model covers the site. */
+  horizon: SiteHorizonOut | null
+}
+
+/** The Sun against the terrain at one contact: apparent angles in degrees. */
+export interface HorizonContactOut {
+  sunAltitudeDeg: number
+  terrainAltitudeDeg: number
+  marginDeg: number
+  /** The whole solar disc is above the terrain. */
+  clear: boolean
+  /** The Sun is within 2° of the terrain. */
+  close: boolean
+  azimuthDeg: number
+  distanceKm: number
+}
+
+export interface SiteHorizonOut {
+  c2: HorizonContactOut | null
+  max: HorizonContactOut | null
+  c3: HorizonContactOut | null
+  /** Which model and which formulas. */
+  source: string
+  observerHeightM: number
+  /** Whether the observer's height is the site's own or the model's ground plus eye height. */
+  heightSource: 'site' | 'model'
+  groundHeightM: number
+  /** The terrain's apparent altitude by azimuth across the Sun's path in the sky. */
+  profile: Array<{ azimuthDeg: number; altitudeDeg: number }>
+  /** The Sun from C1 to C4, every 5 minutes and at the contacts. */
+  sunTrack: Array<{ utc: string; altitudeDeg: number; azimuthDeg: number; label?: string }>
 }
 
 export interface SiteOut {

@@ -10,6 +10,7 @@ import * as m0008 from './0008_money'
 import * as m0009 from './0009_session_version'
 import * as m0010 from './0010_cluster'
 import * as m0011 from './0011_briefing'
+import * as m0012 from './0012_terrain'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -24,4 +25,5 @@ export const migrations: Record<string, Migration> = {
   '0009_session_version': m0009,
   '0010_cluster': m0010,
   '0011_briefing': m0011,
+  '0012_terrain': m0012,
 }

@@ -1,0 +1,162 @@
+import { fc, test } from '@fast-check/vitest'
+import { describe, expect, it } from 'vitest'
+import { computedElementsFor } from '../../server/eclipse/catalogue'
+import { expectedSeenGrid, surfaceBands, wrapLon, type SurfaceGrid } from '../../server/eclipse/surface'
+import { isLand } from '../../server/services/land'
+import { centralDurationEvaluator } from '../../shared/eclipse/centralDuration'
+import { deltaTHourAngleRad, greatestT, localCircumstances, offsetPoint } from '../../shared/eclipse'
+import { centralPathRing } from '../../shared/eclipse/pathBand'
+import { haversineKm } from '../../shared/geo/distance'
+import { EARTH_MEAN_RADIUS_M, horizonAlong, TERRESTRIAL_REFRACTION_K, type HeightModel } from '../../shared/geo/horizon'
+import { chaseOrder } from '../../shared/planning/chase'
+import { canonGreatest, canonSet } from './reference'
+
+describe('duration-only evaluation', () => {
+  // Total, annular and hybrid eclipses; the full local-circumstance solution is the reference.
+  describe.each(['2027-08-02', '2024-04-08', '2023-10-14', '2023-04-20'])('%s', (id) => {
+    const el = computedElementsFor(id)!
+    const evaluate = centralDurationEvaluator(el, el.deltaTSec)
+    const tg = greatestT(el)
+    test.prop([fc.double({ min: -1.3, max: 1.3, noNaN: true }), fc.double({ min: -1.5, max: 1.5, noNaN: true }), fc.integer({ min: 0, max: 3000 })], { numRuns: 150 })(
+      'matches the full local circumstances to 0.01 s and 0.001°', (along, fraction, elevationM) => {
+        const p = offsetPoint(el, tg + along, fraction, 'umbra', deltaTHourAngleRad(el.deltaTSec))
+        if (!p) return
+        const full = localCircumstances(el, { latDeg: p.latDeg, lonDeg: p.lonDeg, elevationM }, el.deltaTSec)
+        const fast = evaluate(p.latDeg, p.lonDeg, elevationM)
+        const central = full.type === 'total' || full.type === 'annular'
+        expect(Math.abs(fast.durationSec - (central ? full.durationSec : 0))).toBeLessThan(0.01)
+        if (full.max) expect(Math.abs(fast.sunAltitudeDeg - full.max.apparentAltitudeDeg)).toBeLessThan(0.001)
+      })
+  })
+})
+
+describe('expected-seen surface of 2027-08-02', () => {
+  // From the Five Millennium Canon's own elements and ΔT (tests/fixtures/reference).
+  const el = canonSet('2027-08-02')
+  const canon = canonGreatest().find((r) => r.date === '2027-08-02')!
+  const grid = expectedSeenGrid(el, el.deltaTSec, el.deltaTSec, null) as SurfaceGrid
+
+  it('covers the whole central path on a grid finer than 5 km', () => {
+    expect(grid.stepDeg * 111.32).toBeLessThan(5)
+    const ring = centralPathRing(el, el.deltaTSec, el.deltaTSec)!
+    const covered = new Set<string>()
+    for (const row of grid.rows) for (const run of row.runs) for (let k = 0; k < run.durationSec.length; k++) covered.add(`${Math.round(row.latDeg / grid.stepDeg)}:${run.j0 + k}`)
+    // Every limit point, and 300 random points across the path, fall in an evaluated cell.
+    const tg = greatestT(el)
+    const dH = deltaTHourAngleRad(el.deltaTSec)
+    let checked = 0
+    for (let i = 0; i < 300; i++) {
+      const p = offsetPoint(el, tg + (i / 150 - 1) * 1.4, ((i * 7919) % 200) / 100 - 1, 'umbra', dH)
+      if (!p || localCircumstances(el, { latDeg: p.latDeg, lonDeg: p.lonDeg }, el.deltaTSec).durationSec === 0) continue
+      const key = `${Math.round(p.latDeg / grid.stepDeg)}:${Math.round(p.lonDeg / grid.stepDeg)}`
+      expect(covered.has(key), `${p.latDeg}, ${p.lonDeg}`).toBe(true)
+      checked++
+    }
+    expect(checked).toBeGreaterThan(200)
+    expect(ring.length).toBeGreaterThan(100)
+  })
+
+  it('finds the longest duration where the Canon puts it: 6 min 23 s near greatest eclipse', () => {
+    const b = surfaceBands(grid, 'duration')
+    // Canon: central duration 6m23s at greatest eclipse, 25.5° N 33.2° E. The longest anywhere is at least that, within the grid's spacing.
+    expect(b.best!.durationSec).toBeGreaterThan(canon.centralDurationSec - 1)
+    expect(b.best!.durationSec).toBeLessThan(canon.centralDurationSec + 2)
+    // The duration hardly changes for hundreds of kilometres along the centreline near its peak, so the longest cell may lie a few hundred km from greatest eclipse.
+    expect(haversineKm(b.best!.lat, b.best!.lon, canon.latDeg, canon.lonDeg)).toBeLessThan(400)
+  })
+
+  it('puts every cell in the band of its own value, and the best in the top band', () => {
+    const pClear = (lat: number, lon: number) => 0.5 + 0.4 * Math.sin(lat / 3) * Math.cos(lon / 5)
+    const g = expectedSeenGrid(el, el.deltaTSec, el.deltaTSec, pClear)!
+    const b = surfaceBands(g, 'expected')
+    const inRect = (lon: number, lat: number, ring: number[][]) => lon >= ring[0]![0]! && lon <= ring[1]![0]! && lat >= ring[0]![1]! && lat <= ring[2]![1]!
+    let n = 0
+    for (const row of g.rows.filter((_, i) => i % 97 === 0)) for (const run of row.runs) for (let k = 0; k < run.durationSec.length; k += 13) {
+      const lon = (run.j0 + k) * g.stepDeg
+      const v = run.durationSec[k]! * run.pClear[k]!
+      const f = b.features.find((x) => x.geometry.coordinates.some((poly) => inRect(lon, row.latDeg, poly[0]!)))
+      if (!(v > 0) || run.sunAltitudeDeg[k]! < 0) { expect(f).toBeUndefined(); continue }
+      // The expected value uses the independent pClear function above, not the module's own figures.
+      expect(v).toBeCloseTo(run.durationSec[k]! * pClear(row.latDeg, wrapLon(lon)), 4)
+      expect(f, `${row.latDeg} ${lon}`).toBeDefined()
+      expect(v).toBeGreaterThanOrEqual(f!.properties.fromSec)
+      if (f!.properties.band < b.legend.length - 1) expect(v).toBeLessThan(f!.properties.toSec)
+      n++
+    }
+    expect(n).toBeGreaterThan(50)
+    expect(b.best!.expectedSec!).toBeGreaterThanOrEqual(b.legend.at(-1)!.fromSec)
+    expect(b.legend.length).toBeLessThanOrEqual(8)
+  })
+})
+
+describe('land mask (Natural Earth 1:10m land)', () => {
+  it('knows land from sea at places everyone can check', () => {
+    // Luxor, Cairo and Jeddah are on land; the middle of the Red Sea and the Mediterranean off Alexandria are not.
+    expect(isLand(25.6872, 32.6396)).toBe(true)
+    expect(isLand(30.0444, 31.2357)).toBe(true)
+    expect(isLand(21.4858, 39.1925 + 0.05)).toBe(true)
+    expect(isLand(25.0, 36.0)).toBe(false)
+    expect(isLand(32.5, 29.9)).toBe(false)
+  })
+})
+
+describe('terrain horizon', () => {
+  const R = EARTH_MEAN_RADIUS_M
+  const k = TERRESTRIAL_REFRACTION_K
+  /** A ridge `heightM` high from `fromM` to `toM` east of the origin along the equator; flat 0 m elsewhere. */
+  const ridge = (fromM: number, toM: number, heightM: number, cellKm = 0.03): HeightModel => ({
+    cellKm,
+    heightAt: (lat, lon) => {
+      if (Math.abs(lat) > 0.5 || lon < -0.5 || lon > 2) return null
+      const dM = (lon * Math.PI / 180) * R
+      return dM >= fromM && dM <= toM ? heightM : 0
+    },
+  })
+  // Expected apparent angle: atan((h − h0) / d) − d / (2R), plus terrestrial refraction k·d/(2R), k = 0.13.
+  const expected = (h: number, h0: number, d: number) => (Math.atan((h - h0) / d) - d / (2 * R) + k * d / (2 * R)) * 180 / Math.PI
+
+  it.each([
+    { fromM: 10_000, h: 500, h0: 0 },
+    { fromM: 2_000, h: 900, h0: 120 },
+    { fromM: 40_000, h: 2500, h0: 300 },
+  ])('a ridge of $h m at $fromM m seen from $h0 m', ({ fromM, h, h0 }) => {
+    const got = horizonAlong(ridge(fromM, fromM + 3000, h), 0, 0, h0, 90)!
+    // The march samples at most max(15 m, 0.5 % of d) past the ridge's near edge: the angle moves by at most that much.
+    const step = Math.max(15, fromM * 0.005)
+    const bound = ((h - h0) / fromM ** 2 + 1 / (2 * R)) * step * 180 / Math.PI + 1e-6
+    expect(Math.abs(got.altitudeDeg - expected(h, h0, fromM))).toBeLessThanOrEqual(bound)
+    expect(got.distanceKm * 1000).toBeGreaterThanOrEqual(fromM)
+    expect(got.distanceKm * 1000).toBeLessThanOrEqual(fromM + step + 1)
+    expect(got.geometricDeg).toBeCloseTo((Math.atan((h - h0) / (got.distanceKm * 1000)) - got.distanceKm * 1000 / (2 * R)) * 180 / Math.PI, 9)
+  })
+
+  it('lets the Earth\'s curvature hide a far ridge: 1000 m at 100 km stands at about 0.18°, not 0.57°', () => {
+    const got = horizonAlong(ridge(100_000, 103_000, 1000), 0, 0, 0, 90)!
+    expect(got.altitudeDeg).toBeCloseTo(expected(1000, 0, 100_000), 2)
+    expect(got.altitudeDeg).toBeLessThan(0.2)
+    expect(Math.atan(1000 / 100_000) * 180 / Math.PI).toBeGreaterThan(0.57)
+  })
+
+  it('looks only in the direction asked', () => {
+    const m = ridge(5_000, 8_000, 800)
+    expect(horizonAlong(m, 0, 0, 0, 90)!.altitudeDeg).toBeGreaterThan(8)
+    expect(horizonAlong(m, 0, 0, 0, 270)!.altitudeDeg).toBeLessThan(0.01)
+  })
+})
+
+describe('chase order', () => {
+  it('ranks by expected seen seconds in 10 s steps, then by the shorter trip, sites without a central phase last', () => {
+    const order = chaseOrder([
+      { id: 'far-best', expectedSec: 300, durationSec: 320, distanceKm: 400 },
+      { id: 'near-good', expectedSec: 296, durationSec: 330, distanceKm: 40 },
+      { id: 'outside', expectedSec: 0, durationSec: 0, distanceKm: 5 },
+      { id: 'near-poor', expectedSec: 120, durationSec: 300, distanceKm: 10 },
+    ]).map((x) => x.id)
+    expect(order).toEqual(['far-best', 'near-good', 'near-poor', 'outside'])
+    const tie = chaseOrder([
+      { id: 'b', expectedSec: 292, durationSec: 320, distanceKm: 90 },
+      { id: 'a', expectedSec: 298, durationSec: 320, distanceKm: 30 },
+    ]).map((x) => x.id)
+    expect(tie).toEqual(['a', 'b'])
+  })
+})
