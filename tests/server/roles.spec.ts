@@ -69,6 +69,11 @@ const ROUTES: Array<[string, string, Access]> = [
   ['GET', '/api/users', 'organiser'],
   ['POST', '/api/users', 'organiser'],
   ['GET', '/api/workspaces/1/cloud-layer', 'staff'],
+  ['GET', '/api/workspaces/1/expected-seen', 'staff'],
+  ['GET', '/api/workspaces/1/expected-seen/point?lat=25.7&lon=32.6', 'staff'],
+  ['GET', '/api/workspaces/1/best-spots?lat=25.7&lon=32.6&radiusKm=20&limit=2', 'staff'],
+  ['GET', '/api/workspaces/1/terrain', 'staff'],
+  ['POST', '/api/workspaces/1/terrain', 'organiser'],
   ['GET', '/api/workspaces/1/export.csv', 'staff'],
   ['GET', '/api/workspaces/1/export.geojson', 'staff'],
   ['GET', '/api/workspaces/1/export.gpx', 'staff'],
@@ -130,7 +135,7 @@ describe('the role matrix', () => {
 
   // Session-ending routes are called last, with a fresh sign-in, so they do not end the callers' sessions.
   const SESSION_ENDING = new Set(['/api/auth/logout', '/api/auth/sign-out-everywhere'])
-  const UPLOADS = new Set(['/api/climatology', '/api/workspaces/1/sites/import'])
+  const UPLOADS = new Set(['/api/climatology', '/api/workspaces/1/sites/import', '/api/workspaces/1/terrain'])
   const ordered = [...ROUTES.filter(([, p]) => !SESSION_ENDING.has(p)), ...ROUTES.filter(([, p]) => SESSION_ENDING.has(p))]
   it.each(ordered)('%s %s (%s)', async (method, path, access) => {
     const seen: string[] = []
