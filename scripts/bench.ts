@@ -1,7 +1,7 @@
-// npm run --silent bench -- <engine|elements|sites|climatology|tiles|booking|all|cluster>   — speed figures as ratios measured in one run (never in tests).
+// npm run --silent bench -- <engine|elements|surface|sites|climatology|tiles|booking|all|cluster>   — speed figures as ratios measured in one run (never in tests).
 import * as Astronomy from 'astronomy-engine'
 import autocannon from 'autocannon'
-import { spawn } from 'node:child_process'
+import { spawn, spawnSync } from 'node:child_process'
 import { existsSync, mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
@@ -12,6 +12,10 @@ import { siteMetrics } from '../server/services/planning'
 import { cloudAt, parseCsvGrid } from '../server/services/climatology'
 import { demoCloudCsv } from '../server/database/seed/demoCloud'
 import { catalogue, computedElementsFor } from '../server/eclipse/catalogue'
+import { expectedSeenGrid, surfaceBands } from '../server/eclipse/surface'
+import { pClearSampler } from '../server/services/climatology'
+import { centralDurationEvaluator } from '../shared/eclipse/centralDuration'
+import { resolveTimeBasis } from '../server/eclipse/report'
 import { computeElements } from '../server/eclipse/compute'
 import { localReport } from '../server/eclipse/report'
 import {
@@ -161,12 +165,7 @@ function sites() {
 }
 
 function climatology() {
-  const g = parseCsvGrid(demoCloudCsv())
-  const m = g.months.get(8)!
-  const grids = {
-    meta: { name: 'demo', demo: 1 } as never,
-    cloud: { ...g, values: m.cloud }, clear: { ...g, values: m.clear! }, scattered: { ...g, values: m.scattered! }, broken: { ...g, values: m.broken! },
-  }
+  const grids = demoMonthGrids()
   const rand = rng(11)
   const pts = Array.from({ length: 10_000 }, () => [5 + rand() * 37, -12 + rand() * 64] as const)
   for (const [lat, lon] of pts.slice(0, 500)) cloudAt(grids, lat, lon)
@@ -174,6 +173,64 @@ function climatology() {
   let sink = 0
   for (const [lat, lon] of pts) sink += cloudAt(grids, lat, lon).cloudPct ?? 0
   console.log(`cloud interpolation (bilinear cloud + 3 categories + P(clear)) for 10,000 sites: ${(performance.now() - t).toFixed(1)} ms (goal: < 100 ms)${sink < 0 ? '!' : ''}`)
+}
+
+function demoMonthGrids() {
+  const g = parseCsvGrid(demoCloudCsv())
+  const m = g.months.get(8)!
+  return {
+    meta: { name: 'demo', demo: 1 } as never,
+    cloud: { ...g, values: m.cloud }, clear: { ...g, values: m.clear! }, scattered: { ...g, values: m.scattered! }, broken: { ...g, values: m.broken! },
+  }
+}
+
+/** One cold expected-seen surface of 2027-08-02 (demo climatology), in this process: what a first request pays. */
+function surfaceCold() {
+  const el = computedElementsFor('2027-08-02')!
+  const grids = demoMonthGrids()
+  const dt = resolveTimeBasis(el)
+  const t = performance.now()
+  const grid = expectedSeenGrid(el, dt.deltaTSec, dt.ttMinusClockSec, pClearSampler(grids))!
+  const bands = surfaceBands(grid, 'expected')
+  const ms = performance.now() - t
+  console.log(`surface: whole 2027-08-02 path, ${grid.cells} cells at ${grid.stepDeg}° (≤ ${(grid.stepDeg * 111.32).toFixed(2)} km), ${bands.features.length} bands, cold in a fresh process`)
+  console.log(`surface-ms ${ms.toFixed(0)} (goal: < 1000)`)
+}
+
+/** Duration-only throughput, the surface's cold time (fresh process), and the routes through the built app. */
+async function surface() {
+  const el = computedElementsFor('2027-08-02')!
+  const pts = sitesAlongPath(el, 20_000)
+  const evaluate = centralDurationEvaluator(el, el.deltaTSec)
+  for (const s of pts.slice(0, 2000)) evaluate(s.latDeg, s.lonDeg)
+  let sink = 0
+  const t = performance.now()
+  for (let k = 0; k < 5; k++) for (const s of pts) sink += evaluate(s.latDeg, s.lonDeg, s.elevationM ?? 0).durationSec
+  const rate = (5 * pts.length) / ((performance.now() - t) / 1000)
+  console.log(`duration-only evaluation: ${Math.round(rate)} sites/s over ${pts.length} sites × 5 (goal: ≥ 300000)${sink < 0 ? '!' : ''}`)
+  const cold = spawnSync(process.execPath, [...process.execArgv, process.argv[1]!, 'surface-cold'], { encoding: 'utf8' })
+  process.stdout.write(cold.stdout || cold.stderr)
+  if (!existsSync('.output/server/index.mjs')) { console.log('surface routes: skipped (no build: run "npx nuxt build")'); return }
+  const app = await startApp()
+  try {
+    const r = await fetch(`${app.base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'organiser@umbrafield.test', password: 'eclipse-demo' }) })
+    const cookie = r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    const timed = async (path: string) => {
+      const t0 = performance.now()
+      const res = await fetch(`${app.base}${path}`, { headers: { cookie } })
+      await res.arrayBuffer()
+      return { ms: performance.now() - t0, status: res.status }
+    }
+    const first = await timed('/api/workspaces/1/expected-seen')
+    const second = await timed('/api/workspaces/1/expected-seen')
+    console.log(`expected-seen route: first ${first.ms.toFixed(0)} ms, cached ${second.ms.toFixed(0)} ms (status ${first.status})`)
+    for (const radiusKm of [150, 500]) {
+      const b = await timed(`/api/workspaces/1/best-spots?lat=25.6872&lon=32.6396&radiusKm=${radiusKm}&limit=10`)
+      console.log(`best-spots-ms ${b.ms.toFixed(0)} within ${radiusKm} km of Luxor, 10 spots (goal: < 3000; status ${b.status})`)
+    }
+  } finally {
+    app.stop()
+  }
 }
 
 async function booking() {
@@ -299,8 +356,8 @@ async function cluster() {
 
 const what = process.argv[2] ?? 'all'
 // "cluster" starts PostgreSQL and two instances: it runs when asked for by name, not in "all".
-const benches: Record<string, () => void | Promise<void>> = { engine, elements, sites, climatology, tiles, booking, cluster }
-if (what === 'all') delete benches.cluster
+const benches: Record<string, () => void | Promise<void>> = { engine, elements, surface, sites, climatology, tiles, booking, cluster, 'surface-cold': surfaceCold }
+if (what === 'all') { delete benches.cluster; delete benches['surface-cold'] }
 if (what !== 'all' && !benches[what]) {
   console.error(`bench: unknown bench "${what}"; choose ${Object.keys(benches).join(', ')} or all`)
   process.exit(2)
