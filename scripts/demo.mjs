@@ -41,6 +41,10 @@ mkdirSync(dirname(secretFile), { recursive: true })
 if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString('hex'), { mode: 0o600 })
 const sessionPassword = process.env.NUXT_SESSION_PASSWORD || readFileSync(secretFile, 'utf8').trim()
 
+// An invented height model for trying the terrain check (demo data, not a real place's terrain).
+const DEMO_TERRAIN = 'data/demo-ridge-tangier.tif'
+if (!existsSync(DEMO_TERRAIN)) spawnSync('npx', ['tsx', 'scripts/make-demo-terrain.ts', DEMO_TERRAIN], { stdio: 'ignore' })
+
 // 3. Local fakes for hosted services, then the app (which migrates and seeds at start-up).
 const children = []
 function start(name, cmd, args, env = {}) {
@@ -106,6 +110,9 @@ ${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
     guide@umbrafield.test       guide
     traveller@umbrafield.test   traveller
     traveller2@umbrafield.test  traveller with a confirmed Luxor booking (open its briefing)
+
+  Best ground: Site planning → a workspace → "Show expected seen seconds" and "Find the best ground near here".
+  Terrain check: upload ${DEMO_TERRAIN} there (an invented ridge in front of Tangier Cap Spartel; demo data).
 
   New accounts confirm their address through the link in the mail inbox above before they can hold seats.
   Demo trips: Luxor (total eclipse, 2027-08-02) and Punta del Este (annular eclipse, 2027-02-06).
