@@ -33,7 +33,7 @@ test('an organiser finds the best ground near Luxor, adds it, and a site behind 
   await expect(page.getByTestId('surface-hover')).toContainText(/s central/)
 
   // Best ground within 150 km of Luxor, at least as good as the candidates there.
-  await page.getByLabel('Centre (latitude, longitude)').fill(`${luxor.lat}, ${luxor.lon}`)
+  await page.getByLabel('Centre of the search (lat, lon)').fill(`${luxor.lat}, ${luxor.lon}`)
   await page.getByLabel('Within (km)').fill('150')
   await page.getByRole('button', { name: 'Find', exact: true }).click()
   const list = page.getByTestId('best-spots')

@@ -34,13 +34,16 @@ function climatologyNote(ctx: GroundContext): string | null {
 }
 
 /** The figures at one point, by the same evaluation as the local-circumstances route and the site metrics. */
-export function spotFigures(ctx: GroundContext, lat: number, lon: number) {
-  const elevationM = ctx.terrain?.heightAt(lat, lon) ?? 0
+export function spotFigures(ctx: GroundContext, latIn: number, lonIn: number) {
+  // Evaluated at the coordinates returned (4 decimals, about 11 m), so a caller who asks the local route there gets the same duration.
+  const lat = r4(latIn), lon = r4(lonIn)
+  // Whole metres, so the local-circumstances route given the same elevation computes the same figures.
+  const elevationM = Math.round(ctx.terrain?.heightAt(lat, lon) ?? 0)
   const lc = localCircumstances(ctx.el, { latDeg: lat, lonDeg: lon, elevationM }, ctx.dt.deltaTSec, ctx.dt.ttMinusClockSec)
   const durationSec = r1(lc.durationSec)
   const pClear = ctx.grids ? cloudAt(ctx.grids, lat, lon).pClear : null
   return {
-    lat: r4(lat), lon: r4(lon), elevationM: Math.round(elevationM),
+    lat, lon, elevationM,
     durationSec, pClear, expectedSec: pClear === null ? null : durationSec * pClear,
     sunAltitudeDeg: lc.max ? r1(lc.max.apparentAltitudeDeg) : null,
   }
