@@ -56,7 +56,6 @@ export async function storeTerrain(db: Kysely<Database>, user: User, workspaceId
     await audit(trx, { action: 'terrain_import', actorUserId: user.id, detail: { workspaceId, terrainId: r.id, name, cells: t.nlat * t.nlon } })
     return r.id
   })
-  terrainCache.delete(workspaceId)
   return id
 }
 
@@ -73,10 +72,14 @@ export async function listTerrain(db: Kysely<Database>, workspaceId: number) {
 /** The workspace's height models as one sampler (newest model first where they overlap), with its name. */
 export interface Terrain extends HeightModel { name: string; names: string[] }
 
-const terrainCache = new Map<number, Terrain | null>()
+/** Models by workspace, with the ids they were built from: another instance may have added one since. */
+const terrainCache = new Map<number, { ids: string; terrain: Terrain | null }>()
 
 export async function terrainFor(db: Kysely<Database>, workspaceId: number): Promise<Terrain | null> {
-  if (terrainCache.has(workspaceId)) return terrainCache.get(workspaceId)!
+  const ids = (await db.selectFrom('terrain_models').select('id').where('workspace_id', '=', workspaceId).orderBy('id', 'desc').execute()).map((r) => r.id).join(',')
+  const hit = terrainCache.get(workspaceId)
+  if (hit && hit.ids === ids) return hit.terrain
+  if (!ids) { terrainCache.set(workspaceId, { ids, terrain: null }); return null }
   const rows = await db.selectFrom('terrain_models').selectAll().where('workspace_id', '=', workspaceId).orderBy('id', 'desc').execute()
   let out: Terrain | null = null
   if (rows.length) {
@@ -96,11 +99,9 @@ export async function terrainFor(db: Kysely<Database>, workspaceId: number): Pro
     const cellKm = Math.min(...rows.map((r) => r.dlat * 111.2))
     out = { name: rows[0]!.name, names: rows.map((r) => r.name), heightAt, cellKm }
   }
-  terrainCache.set(workspaceId, out)
+  terrainCache.set(workspaceId, { ids: rows.map((r) => r.id).join(','), terrain: out })
   return out
 }
-
-export function forgetTerrain(workspaceId: number) { terrainCache.delete(workspaceId) }
 
 const r1 = (v: number) => Math.round(v * 10) / 10
 const r2 = (v: number) => Math.round(v * 100) / 100
@@ -117,7 +118,7 @@ export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: L
   // The organiser's height wins; a blank (0) height takes the model's ground plus eye height.
   const fromSite = site.elevationM !== 0
   const observerHeightM = fromSite ? site.elevationM : ground + EYE_HEIGHT_M
-  const at = (k: 'c2' | 'max' | 'c3'): HorizonContactOut | null => {
+  const at = (k: 'c1' | 'c2' | 'max' | 'c3' | 'c4'): HorizonContactOut | null => {
     const c = r[k]
     if (!c) return null
     const h = horizonAlong(terrain, site.lat, site.lon, observerHeightM, c.azimuthDeg)
@@ -162,7 +163,7 @@ export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: L
     }
   }
   return {
-    c2: at('c2'), max: at('max'), c3: at('c3'),
+    c1: at('c1'), c2: at('c2'), max: at('max'), c3: at('c3'), c4: at('c4'),
     source: `terrain model "${terrain.name}"; curvature and terrestrial refraction k = 0.13 for the terrain, Sæmundsson's refraction for the Sun`,
     observerHeightM: r1(observerHeightM),
     heightSource: fromSite ? 'site' as const : 'model' as const,
@@ -171,11 +172,11 @@ export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: L
   }
 }
 
-/** Timetable lines for contacts where the Sun is within 2° of the terrain (or behind it). */
+/** Timetable lines for every contact (C1 to C4 and maximum) where the Sun is within 2° of the terrain or behind it. */
 export function terrainWarnings(h: SiteHorizonOut | null): string[] {
   if (!h) return []
   const out: string[] = []
-  for (const [k, label] of [['c2', 'C2'], ['max', 'maximum'], ['c3', 'C3']] as const) {
+  for (const [k, label] of [['c1', 'C1'], ['c2', 'C2'], ['max', 'maximum'], ['c3', 'C3'], ['c4', 'C4']] as const) {
     const c = h[k]
     if (!c || !c.close) continue
     out.push(c.clear

@@ -113,7 +113,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
         pClear, expectedSec: pClear === null ? null : Math.round(r.durationSec * pClear * 10) / 10, durationSec: r.durationSec,
         distanceKm: Math.round(haversineKm(primary.lat, primary.lon, s.lat, s.lon) * 10) / 10, rank: i,
       },
-      horizon: horizon ? { c2: horizon.c2, max: horizon.max, c3: horizon.c3, source: horizon.source, observerHeightM: horizon.observerHeightM } : null,
+      horizon: horizon ? { c1: horizon.c1, c2: horizon.c2, max: horizon.max, c3: horizon.c3, c4: horizon.c4, source: horizon.source, observerHeightM: horizon.observerHeightM } : null,
       terrainWarnings: terrainWarnings(horizon),
     }
   })

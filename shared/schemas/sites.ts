@@ -127,6 +127,9 @@ export interface SiteHorizonOut {
   c2: HorizonContactOut | null
   max: HorizonContactOut | null
   c3: HorizonContactOut | null
+  /** The partial phase's first and last contacts, for the timetable's warnings. */
+  c1: HorizonContactOut | null
+  c4: HorizonContactOut | null
   /** Which model and which formulas. */
   source: string
   observerHeightM: number

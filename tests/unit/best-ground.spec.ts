@@ -3,11 +3,12 @@ import { describe, expect, it } from 'vitest'
 import { computedElementsFor } from '../../server/eclipse/catalogue'
 import { expectedSeenGrid, surfaceBands, wrapLon, type SurfaceGrid } from '../../server/eclipse/surface'
 import { isLand } from '../../server/services/land'
+import { terrainWarnings } from '../../server/services/terrain'
 import { centralDurationEvaluator } from '../../shared/eclipse/centralDuration'
 import { deltaTHourAngleRad, greatestT, localCircumstances, offsetPoint } from '../../shared/eclipse'
 import { centralPathRing } from '../../shared/eclipse/pathBand'
 import { haversineKm } from '../../shared/geo/distance'
-import { EARTH_MEAN_RADIUS_M, horizonAlong, TERRESTRIAL_REFRACTION_K, type HeightModel } from '../../shared/geo/horizon'
+import { EARTH_MEAN_RADIUS_M, horizonAlong, SUN_SEMIDIAMETER_DEG, TERRESTRIAL_REFRACTION_K, type HeightModel } from '../../shared/geo/horizon'
 import { chaseOrder } from '../../shared/planning/chase'
 import { canonGreatest, canonSet } from './reference'
 
@@ -158,5 +159,23 @@ describe('chase order', () => {
       { id: 'a', expectedSec: 298, durationSec: 320, distanceKm: 30 },
     ]).map((x) => x.id)
     expect(tie).toEqual(['a', 'b'])
+  })
+})
+
+describe('terrain warnings for the timetable', () => {
+  const contact = (sunAltitudeDeg: number, terrainAltitudeDeg: number) => ({
+    sunAltitudeDeg, terrainAltitudeDeg, marginDeg: sunAltitudeDeg - terrainAltitudeDeg, azimuthDeg: 100, distanceKm: 3,
+    clear: sunAltitudeDeg - terrainAltitudeDeg > SUN_SEMIDIAMETER_DEG, close: sunAltitudeDeg - terrainAltitudeDeg < 2,
+  })
+  it('warns at every contact within 2° of the terrain, and says which are behind it', () => {
+    const lines = terrainWarnings({
+      c1: contact(5, 6), c2: contact(12, 10.5), max: contact(14, 9), c3: contact(16, 15.9), c4: contact(30, 1),
+      source: 'test', observerHeightM: 0, heightSource: 'site', groundHeightM: 0, profile: [], sunTrack: [],
+    })
+    expect(lines).toHaveLength(3)
+    expect(lines[0]).toMatch(/^C1: .* behind the terrain/)
+    expect(lines[1]).toMatch(/^C2: .* only 1\.5° above the terrain/)
+    expect(lines[2]).toMatch(/^C3: .* behind the terrain/) // 0.1° is less than the Sun's semi-diameter
+    expect(terrainWarnings(null)).toEqual([])
   })
 })
