@@ -70,7 +70,7 @@ export async function listTerrain(db: Kysely<Database>, workspaceId: number) {
 }
 
 /** The workspace's height models as one sampler (newest model first where they overlap), with its name. */
-export interface Terrain extends HeightModel { name: string; names: string[] }
+export interface Terrain extends HeightModel { name: string }
 
 /** Models by workspace, with the ids they were built from: another instance may have added one since. */
 const terrainCache = new Map<number, { ids: string; terrain: Terrain | null }>()
@@ -97,7 +97,7 @@ export async function terrainFor(db: Kysely<Database>, workspaceId: number): Pro
       return null
     }
     const cellKm = Math.min(...rows.map((r) => r.dlat * 111.2))
-    out = { name: rows[0]!.name, names: rows.map((r) => r.name), heightAt, cellKm }
+    out = { name: rows[0]!.name, heightAt, cellKm }
   }
   terrainCache.set(workspaceId, { ids: rows.map((r) => r.id).join(','), terrain: out })
   return out
@@ -111,7 +111,8 @@ const r2 = (v: number) => Math.round(v * 100) / 100
  * a profile across the Sun's path in the sky from C1 to C4, and the Sun's track over it. Null when
  * no model covers the site.
  */
-export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: LocalReport, site: { lat: number; lon: number; elevationM: number }): SiteHorizonOut | null {
+export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: LocalReport, site: { lat: number; lon: number; elevationM: number },
+  opts: { profile?: boolean } = {}): SiteHorizonOut | null {
   if (!terrain) return null
   const ground = terrain.heightAt(site.lat, site.lon)
   if (ground === null) return null
@@ -139,7 +140,9 @@ export function siteHorizon(terrain: Terrain | null, el: BesselianElements, r: L
     const { altitudeDeg, azimuthDeg } = sunAltAz(st, o, observerAt(el, st, o, dH).H)
     return { utc: new Date(utcMs).toISOString(), altitudeDeg: r2(altitudeDeg + refractionDeg(altitudeDeg)), azimuthDeg: r2(azimuthDeg) }
   }
-  const first = r.c1 ?? r.max, last = r.c4 ?? r.max
+  // The profile and the Sun's track are for drawing; the timetable's warnings need only the contacts.
+  const first = opts.profile === false ? undefined : r.c1 ?? r.max
+  const last = r.c4 ?? r.max
   const sunTrack: Array<{ utc: string; altitudeDeg: number; azimuthDeg: number; label?: string }> = []
   if (first && last) {
     const a = Date.parse(first.utc), b = Date.parse(last.utc)

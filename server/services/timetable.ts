@@ -100,7 +100,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const plan = planCues(cueInputFor(el, r, trip, offsets, planets))
     const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(c.utcMs, zone) }))
     const pClear = cloud(s).pClear
-    const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m })
+    const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }, { profile: false })
     return {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(Date.now(), zone).utcOffset,
