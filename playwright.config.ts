@@ -3,14 +3,17 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { defineConfig } from '@playwright/test'
 import { fakeServices } from './scripts/fakes.mjs'
+import { freePortSync } from './scripts/free-port.mjs'
 import { E2E_DATE } from './e2e/clock'
 
-const PORT = Number(process.env.E2E_PORT ?? 3210)
+// Free ports, picked once in the main process and inherited by the workers through the environment,
+// so two suites (or a suite beside the demo) never collide.
+process.env.E2E_PORT ??= String(freePortSync())
+const PORT = Number(process.env.E2E_PORT)
 const dataDir = mkdtempSync(join(tmpdir(), 'umbrafield-e2e-'))
-// The browser tests get their own fake ports, so a running demo does not collide with them.
-process.env.STRIPE_FAKE_PORT ??= '12113'
-process.env.MAIL_FAKE_SMTP_PORT ??= '12025'
-process.env.MAIL_FAKE_WEB_PORT ??= '12080'
+process.env.STRIPE_FAKE_PORT ??= String(freePortSync())
+process.env.MAIL_FAKE_SMTP_PORT ??= String(freePortSync())
+process.env.MAIL_FAKE_WEB_PORT ??= String(freePortSync())
 const fakes = fakeServices({ appPort: PORT })
 
 export default defineConfig({

@@ -1,6 +1,6 @@
 import { expect, signInAs, test } from './fixtures'
 
-const INBOX = `http://127.0.0.1:${process.env.MAIL_FAKE_WEB_PORT ?? '12080'}`
+const INBOX = `http://127.0.0.1:${process.env.MAIL_FAKE_WEB_PORT}`
 
 test('the organiser previews and sends the itinerary; it lands in the demo inbox', async ({ page, request }) => {
   await signInAs(page, 'organiser@umbrafield.test')

@@ -4,11 +4,16 @@ import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { setup, url } from '@nuxt/test-utils/e2e'
 import pg from 'pg'
-import { beforeAll } from 'vitest'
+import { beforeAll, inject } from 'vitest'
 import { fakeServices } from '../../scripts/fakes.mjs'
-import { TEST_APP_PORT, TEST_FAKE_PORTS } from './global-setup'
+import './global-setup'
 
 const rootDir = resolve(__dirname, '../..')
+
+/** The free ports the global set-up picked for this run (app and fakes). */
+export const TEST_PORTS = inject('testPorts')
+const TEST_APP_PORT = TEST_PORTS.app
+const TEST_FAKE_PORTS = TEST_PORTS.fakes
 
 /**
  * A fresh, empty PostgreSQL database on the throwaway cluster that scripts/with-postgres.mjs started

@@ -1,11 +1,12 @@
 import { simpleParser, type ParsedMail } from 'mailparser'
 import { SMTPServer } from 'smtp-server'
 import { afterAll, describe, expect, it } from 'vitest'
+import { freePort } from '../../scripts/free-port.mjs'
 import { api, GUIDE, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, useApp } from './app'
 
 
 // An in-process SMTP catcher (smtp-server + mailparser) that the tests can stop and start.
-const SMTP_PORT = 11125
+const SMTP_PORT = await freePort()
 const inbox: ParsedMail[] = []
 let smtp: SMTPServer | null = null
 async function startSmtp() {
