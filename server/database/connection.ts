@@ -6,6 +6,7 @@ import pg from 'pg'
 import { isPostgres, isPostgresUrl } from './dialect'
 import { migrations } from './migrations'
 import type { Database } from './schema'
+import { nowIso } from '../services/clock'
 
 /**
  * SQLite write transactions start with BEGIN IMMEDIATE: the write lock is taken at the start, so a
@@ -80,7 +81,7 @@ export async function migrateToLatest(db: Kysely<Database>, set: Record<string, 
         const already = await (trx as unknown as typeof raw).selectFrom('schema_migrations').select('name').where('name', '=', name).executeTakeFirst()
         if (already) { applied = false; return }
         await set[name]!.up(trx)
-        await (trx as unknown as typeof raw).insertInto('schema_migrations').values({ name, applied_at: new Date().toISOString() }).execute()
+        await (trx as unknown as typeof raw).insertInto('schema_migrations').values({ name, applied_at: nowIso() }).execute()
       })
     } catch (e) {
       throw new Error(`migration ${name} failed: ${e instanceof Error ? e.message : String(e)}`, { cause: e })

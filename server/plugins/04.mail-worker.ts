@@ -1,5 +1,6 @@
 import { queueBalanceReminders } from '../services/bookingMail'
 import { makeTransport, processOutbox } from '../services/outbox'
+import { nowMs } from '../services/clock'
 
 /** Sends the outbox every few seconds, and once an hour queues balance reminders. No SMTP configured: mail waits. */
 export default defineNitroPlugin((nitro) => {
@@ -16,7 +17,7 @@ export default defineNitroPlugin((nitro) => {
     running = true
     try {
       await dbReady()
-      if (Date.now() - lastReminders > 3600_000) { lastReminders = Date.now(); await queueBalanceReminders(useDb(), useRuntimeConfig().public.appUrl) }
+      if (nowMs() - lastReminders > 3600_000) { lastReminders = nowMs(); await queueBalanceReminders(useDb(), useRuntimeConfig().public.appUrl) }
       await processOutbox(useDb(), transport, c.from)
     } catch (e) {
       console.error('[umbrafield] mail worker:', (e as Error).message)

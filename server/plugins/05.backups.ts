@@ -2,6 +2,7 @@ import { readdirSync, rmSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { backupDatabase } from '../database/connection'
 import { isPostgresUrl } from '../database/dialect'
+import { nowIso } from '../services/clock'
 
 /**
  * A rolling nightly backup: an online copy (VACUUM INTO) once a day into data/backups/ beside the
@@ -18,10 +19,10 @@ export default defineNitroPlugin((nitro) => {
   const run = async () => {
     try {
       await dbReady()
-      const today = new Date().toISOString().slice(0, 10)
+      const today = nowIso().slice(0, 10)
       const existing = (() => { try { return readdirSync(dir).filter((f) => /^umbrafield-.*\.sqlite$/.test(f)).sort() } catch { return [] } })()
       if (!existing.some((f) => f.startsWith(`umbrafield-${today}`))) {
-        await backupDatabase(useDb(), join(dir, `umbrafield-${new Date().toISOString().replace(/[:.]/g, '-')}.sqlite`))
+        await backupDatabase(useDb(), join(dir, `umbrafield-${nowIso().replace(/[:.]/g, '-')}.sqlite`))
       }
       const all = readdirSync(dir).filter((f) => /^umbrafield-.*\.sqlite$/.test(f)).sort()
       for (const f of all.slice(0, Math.max(0, all.length - keep))) rmSync(join(dir, f), { force: true })

@@ -5,6 +5,7 @@ import type { Database, Role, User } from '../database/schema'
 import { audit } from './audit'
 import { confirmEmailMail } from './mailTemplates'
 import { enqueueMail } from './outbox'
+import { nowIso, nowMs } from './clock'
 
 /**
  * Sign-in throttling by account and by address, with backoff rather than a lock: after the free
@@ -31,7 +32,7 @@ export async function beginAttempt(db: Kysely<Database>, key: string, ip: string
       await sql`select pg_advisory_xact_lock(hashtext(${`sign-in key:${key}`}))`.execute(trx)
       await sql`select pg_advisory_xact_lock(hashtext(${`sign-in ip:${ip}`}))`.execute(trx)
     }
-    const now = Date.now()
+    const now = nowMs()
     const since = new Date(now - THROTTLE.windowMin * 60_000).toISOString()
     const stats = async (col: 'email' | 'ip', value: string) => {
       const r = await trx.selectFrom('sign_in_failures').select((eb) => [eb.fn.countAll<number>().as('n'), eb.fn.max('at').as('last')])
@@ -76,7 +77,7 @@ export async function createUser(db: Kysely<Database>, input: { name: string; em
     if (exists) throw new EmailTakenError('That e-mail address already has an account')
     const user = await trx.insertInto('users').values({
       name: input.name, email: input.email, password_hash: input.passwordHash, role: input.role,
-      email_confirmed_at: action === 'invite' ? new Date().toISOString() : null,
+      email_confirmed_at: action === 'invite' ? nowIso() : null,
     }).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action, actorUserId: actorId ?? user.id, subjectUserId: user.id, ip, detail: { role: input.role } })
     if (action === 'sign_up' && appUrl) await sendEmailConfirmation(trx, user, appUrl)
@@ -90,7 +91,7 @@ const tokenHash = (token: string) => createHash('sha256').update(token).digest('
 
 export async function sendEmailConfirmation(trx: Transaction<Database> | Kysely<Database>, user: Pick<User, 'id' | 'name' | 'email'>, appUrl: string) {
   const token = randomBytes(24).toString('base64url')
-  await trx.insertInto('email_confirmations').values({ token_hash: tokenHash(token), user_id: user.id, expires_at: new Date(Date.now() + CONFIRMATION_HOURS * 3600_000).toISOString() }).execute()
+  await trx.insertInto('email_confirmations').values({ token_hash: tokenHash(token), user_id: user.id, expires_at: new Date(nowMs() + CONFIRMATION_HOURS * 3600_000).toISOString() }).execute()
   await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${token}`, hours: CONFIRMATION_HOURS }) })
 }
 
@@ -100,8 +101,8 @@ export class InvalidTokenError extends Error {}
 export async function confirmEmail(db: Kysely<Database>, token: string): Promise<User> {
   return db.transaction().execute(async (trx) => {
     const row = await trx.selectFrom('email_confirmations').selectAll().where('token_hash', '=', tokenHash(token)).executeTakeFirst()
-    if (!row || row.used_at || row.expires_at < new Date().toISOString()) throw new InvalidTokenError('This link is not valid any more: sign in and ask for a new one')
-    const now = new Date().toISOString()
+    if (!row || row.used_at || row.expires_at < nowIso()) throw new InvalidTokenError('This link is not valid any more: sign in and ask for a new one')
+    const now = nowIso()
     await trx.updateTable('email_confirmations').set({ used_at: now }).where('token_hash', '=', row.token_hash).execute()
     const user = await trx.updateTable('users').set({ email_confirmed_at: now }).where('id', '=', row.user_id).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action: 'email_confirmed', actorUserId: user.id, subjectUserId: user.id })

@@ -12,6 +12,7 @@ import { elementsInForce } from './eclipses'
 import { isLand } from './land'
 import { getWorkspace } from './planning'
 import { terrainFor } from './terrain'
+import { nowIso, nowMs } from './clock'
 
 const r1 = (v: number) => Math.round(v * 10) / 10
 const r4 = (v: number) => Math.round(v * 1e4) / 1e4
@@ -80,7 +81,7 @@ function buildSurface(ctx: GroundContext) {
       time: timeBasisOut(ctx.dt, ctx.el),
       elementsKind: ctx.el.kind,
       computedMs: Math.round(performance.now() - started),
-      computedAt: new Date().toISOString(),
+      computedAt: nowIso(),
     },
   }
 }
@@ -101,7 +102,7 @@ export async function expectedSeenSurface(db: Kysely<Database>, workspaceId: num
   }
   const body = buildSurface(ctx)
   if (surfaceCache.size >= SURFACE_CACHE_MAX) surfaceCache.delete(surfaceCache.keys().next().value!)
-  surfaceCache.set(key, { body, at: Date.now() })
+  surfaceCache.set(key, { body, at: nowMs() })
   return { ...body, properties: { ...body.properties, cached: false } }
 }
 

@@ -6,6 +6,7 @@ import { dueOf } from './dues'
 import { elementsInForce } from './eclipses'
 import * as T from './mailTemplates'
 import { enqueueMail } from './outbox'
+import { businessDate, nowIso } from './clock'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -41,7 +42,7 @@ export async function mailBookingConfirmed(db: Db, bookingId: number, appUrl: st
 export async function mailReceipt(db: Db, paymentId: number, appUrl: string) {
   const p = await db.selectFrom('payments').selectAll().where('id', '=', paymentId).executeTakeFirstOrThrow()
   const { b, u, d } = await data(db, p.booking_id, appUrl)
-  await enqueueMail(db, { kind: 'payment-receipt', to: { email: u.email, name: u.name }, bookingId: b.id, tripId: b.trip_id, ...T.paymentReceipt({ ...d, amountMinor: p.amount_minor, kind: p.kind, reference: p.payment_intent_id, paidAt: p.completed_at ?? new Date().toISOString() }) })
+  await enqueueMail(db, { kind: 'payment-receipt', to: { email: u.email, name: u.name }, bookingId: b.id, tripId: b.trip_id, ...T.paymentReceipt({ ...d, amountMinor: p.amount_minor, kind: p.kind, reference: p.payment_intent_id, paidAt: p.completed_at ?? nowIso() }) })
 }
 
 export async function mailRefund(db: Db, bookingId: number, amountMinor: number, reason: string, appUrl: string) {
@@ -57,7 +58,7 @@ export async function mailWaitlistOffer(db: Db, waitlistId: number, appUrl: stri
 }
 
 /** Scheduled: a reminder 30 and 7 days before the balance is due, once each per booking. */
-export async function queueBalanceReminders(db: Kysely<Database>, appUrl: string, today = new Date()) {
+export async function queueBalanceReminders(db: Kysely<Database>, appUrl: string, today = new Date(`${businessDate()}T00:00:00Z`)) {
   const rows = await db.selectFrom('bookings').innerJoin('trips', 'trips.id', 'bookings.trip_id').select(['bookings.id', 'trips.balance_due_date'])
     .where('bookings.status', '=', 'confirmed').whereRef('bookings.paid_minor', '<', 'bookings.price_minor').execute()
   let queued = 0

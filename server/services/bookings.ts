@@ -1,7 +1,7 @@
 import type { Kysely, Transaction } from 'kysely'
 import type Stripe from 'stripe'
 import { refundPctOn } from '../../shared/schemas/trips'
-import { businessDate } from './clock'
+import { businessDate, nowMs } from './clock'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { isPostgres } from '../database/dialect'
@@ -29,7 +29,7 @@ export class EmailUnconfirmedError extends Error {
   constructor() { super('Confirm your e-mail address first: follow the link we sent you') }
 }
 
-const iso = (ms = Date.now()) => new Date(ms).toISOString()
+const iso = (ms = nowMs()) => new Date(ms).toISOString()
 
 export type BookingConfig = MoneyConfig
 
@@ -54,7 +54,7 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
   const waiting = await trx.selectFrom('waitlist').selectAll().where('trip_id', '=', tripId).where('status', '=', 'waiting').orderBy('id').execute()
   for (const w of waiting) {
     if (w.seats > free) continue
-    await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(Date.now() + cfg.offerHours * 3600_000) }).where('id', '=', w.id).execute()
+    await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(nowMs() + cfg.offerHours * 3600_000) }).where('id', '=', w.id).execute()
     await mailWaitlistOffer(trx, w.id, cfg.appUrl)
     free -= w.seats
     offered.push(w.id)
@@ -89,7 +89,7 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     const use = await seatUse(trx as unknown as Kysely<Database>, tripId, now, user.id)
     const available = trip.seats - use.taken - use.offered
     if (seats > available) throw new SoldOutError(Math.max(0, available))
-    const holdExpiresAt = iso(Date.now() + cfg.holdMinutes * 60_000)
+    const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
     const b = await trx.insertInto('bookings').values({
       trip_id: tripId, user_id: user.id, seats, status: 'held', hold_expires_at: holdExpiresAt,
       price_minor: seats * trip.price_minor, deposit_minor: seats * trip.deposit_minor, currency: trip.currency,

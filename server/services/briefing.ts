@@ -12,6 +12,7 @@ import { audit } from './audit'
 import { NotFoundError, siteWithMetrics } from './planning'
 import { cueInputFor, timetable, type Timetable } from './timetable'
 import { getTripRow, isTripGuide } from './trips'
+import { nowIso } from './clock'
 
 /**
  * Who may read a trip's briefing: organisers, the trip's guides, and travellers with a live booking
@@ -81,7 +82,7 @@ export async function briefing(db: Kysely<Database>, tripId: number, siteId?: nu
     },
     checklist: checklistOf(trip.briefing_checklist),
     safety: safetyLines(site.kind),
-    time: site.time, generatedAt: new Date().toISOString(),
+    time: site.time, generatedAt: nowIso(),
   }
 }
 export type TripBriefing = Awaited<ReturnType<typeof briefing>>

@@ -5,6 +5,7 @@ import type { Database, User } from '../database/schema'
 import { catalogue, computedElementsFor, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
 import { localReport, pathReport, resolveTimeBasis, timeBasisOut } from '../eclipse/report'
 import { audit } from './audit'
+import { businessDate, nowIso } from './clock'
 
 export class UnknownEclipseError extends Error {}
 
@@ -24,13 +25,14 @@ export async function elementsInForce(db: Kysely<Database>, id: string): Promise
 }
 
 export function listEclipses(q: { from?: number; to?: number; type?: string; upcoming?: string }): CatalogueRow[] {
-  const now = new Date().toISOString()
+  // Compared by business date, so a pinned date (tests, the demo) shows the eclipses after it.
+  const today = businessDate()
   return catalogue().rows.filter((r) => {
     const y = Number(r.id.slice(0, 4))
     if (q.from !== undefined && y < q.from) return false
     if (q.to !== undefined && y > q.to) return false
     if (q.type && r.type !== q.type) return false
-    if (q.upcoming && r.greatest.utc < now) return false
+    if (q.upcoming && r.greatest.utc.slice(0, 10) < today) return false
     return true
   })
 }
@@ -113,8 +115,8 @@ export async function removePublishedElements(db: Kysely<Database>, actor: User,
 export async function setDeltaTOverride(db: Kysely<Database>, actor: User, id: string, deltaTSec: number | null) {
   if (!computedElementsFor(id)) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
   await db.transaction().execute(async (trx) => {
-    await trx.insertInto('eclipse_settings').values({ eclipse_id: id, delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: new Date().toISOString() })
-      .onConflict((oc) => oc.column('eclipse_id').doUpdateSet({ delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: new Date().toISOString() }))
+    await trx.insertInto('eclipse_settings').values({ eclipse_id: id, delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: nowIso() })
+      .onConflict((oc) => oc.column('eclipse_id').doUpdateSet({ delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: nowIso() }))
       .execute()
     await audit(trx, { action: 'delta_t_override', actorUserId: actor.id, detail: { eclipseId: id, deltaTSec } })
   })

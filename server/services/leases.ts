@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import type { Kysely } from 'kysely'
 import type { Database } from '../database/schema'
+import { nowDate } from './clock'
 
 /** This process's name in the leases table. */
 export const INSTANCE_ID = `${process.pid}-${randomUUID().slice(0, 8)}`
@@ -13,7 +14,7 @@ export const INSTANCE_ID = `${process.pid}-${randomUUID().slice(0, 8)}`
  */
 export async function withLease(db: Kysely<Database>, name: string, ttlMs: number, job: () => Promise<void>,
   opts: { renew?: boolean } = {}): Promise<boolean> {
-  const now = new Date()
+  const now = nowDate()
   const expiresAt = new Date(now.getTime() + ttlMs).toISOString()
   // renew: false makes the lease a period ("once a day"): even its holder waits until it expires.
   const renew = opts.renew ?? true

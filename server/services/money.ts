@@ -10,6 +10,7 @@ import { refundStuckMail } from './mailTemplates'
 import { enqueueMail } from './outbox'
 import { NotFoundError } from './planning'
 import { getTripRow, lockTripRow, seatUse } from './trips'
+import { nowMs } from './clock'
 
 /**
  * Money that always adds up.
@@ -26,7 +27,7 @@ import { getTripRow, lockTripRow, seatUse } from './trips'
  */
 
 type Db = Kysely<Database> | Transaction<Database>
-const iso = (ms = Date.now()) => new Date(ms).toISOString()
+const iso = (ms = nowMs()) => new Date(ms).toISOString()
 
 export class BookingStateError extends Error {}
 export class RefundLimitError extends Error {}
@@ -240,7 +241,7 @@ async function attemptRefund(db: Kysely<Database>, stripe: Stripe | null, refund
   } catch (e) {
     const attempts = r.attempts + 1
     await db.transaction().execute(async (trx) => {
-      await trx.updateTable('refunds').set({ status: 'failed', attempts, error: (e as Error).message.slice(0, 500), next_attempt_at: iso(Date.now() + retryDelayMs(attempts)) }).where('id', '=', r.id).execute()
+      await trx.updateTable('refunds').set({ status: 'failed', attempts, error: (e as Error).message.slice(0, 500), next_attempt_at: iso(nowMs() + retryDelayMs(attempts)) }).where('id', '=', r.id).execute()
       if (attempts >= REFUND_ALERT_AFTER && !r.organiser_notified_at) {
         await trx.updateTable('refunds').set({ organiser_notified_at: iso() }).where('id', '=', r.id).execute()
         await alertOrganiser(trx, r.booking_id, r.id, r.amount_minor, attempts, (e as Error).message, cfg.appUrl)
@@ -316,7 +317,7 @@ export async function handleStripeEvent(db: Kysely<Database>, stripe: Stripe, ev
  */
 export async function reconcilePayments(db: Kysely<Database>, stripe: Stripe, cfg: MoneyConfig, olderThanMs = Number(process.env.UMBRAFIELD_RECONCILE_AFTER_MS || 30_000), batch = 50): Promise<number> {
   const pending = await db.selectFrom('payments').select(['id', 'booking_id', 'checkout_session_id']).where('status', '=', 'pending')
-    .where('checkout_session_id', 'is not', null).where('created_at', '<', iso(Date.now() - olderThanMs)).orderBy('id').limit(batch).execute()
+    .where('checkout_session_id', 'is not', null).where('created_at', '<', iso(nowMs() - olderThanMs)).orderBy('id').limit(batch).execute()
   let completed = 0
   for (const p of pending) {
     try {

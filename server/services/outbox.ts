@@ -4,6 +4,7 @@ import nodemailer, { type Transporter } from 'nodemailer'
 import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
 import type { Mail } from './mailTemplates'
+import { nowDate, nowIso, nowMs } from './clock'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -21,7 +22,7 @@ export interface OutgoingMail extends Mail {
 export async function enqueueMail(db: Db, m: OutgoingMail): Promise<void> {
   await db.insertInto('outbox').values({
     message_id: `<${randomUUID()}@umbrafield>`, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
-    subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: new Date().toISOString(),
+    subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: nowIso(),
     last_error: null, booking_id: m.bookingId ?? null, trip_id: m.tripId ?? null, sending_since: null, sent_at: null,
   }).onConflict((oc) => oc.column('dedupe_key').doNothing()).execute()
 }
@@ -48,7 +49,7 @@ export const OUTBOX = {
  * after the SMTP server accepted it. Failures retry with exponential backoff, then give up as failed.
  */
 export async function processOutbox(db: Kysely<Database>, transport: Transporter, from: string, limit = 20): Promise<{ sent: number; failed: number }> {
-  const now = new Date()
+  const now = nowDate()
   await db.updateTable('outbox').set({ status: 'queued', sending_since: null })
     .where('status', '=', 'sending').where('sending_since', '<', new Date(now.getTime() - OUTBOX.stuckAfterMs).toISOString()).execute()
   const dueQuery = (q: Db) => q.selectFrom('outbox').selectAll().where('status', '=', 'queued').where('next_attempt_at', '<=', now.toISOString())
@@ -60,7 +61,7 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
     due = await db.transaction().execute(async (trx) => {
       const rows = await dueQuery(trx).forUpdate().skipLocked().execute()
       if (rows.length) {
-        await trx.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() }).where('id', 'in', rows.map((r) => r.id)).execute()
+        await trx.updateTable('outbox').set({ status: 'sending', sending_since: nowIso() }).where('id', 'in', rows.map((r) => r.id)).execute()
       }
       return rows
     })
@@ -69,7 +70,7 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
     // claimed first is skipped.
     due = []
     for (const m of await dueQuery(db).execute()) {
-      const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: new Date().toISOString() })
+      const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: nowIso() })
         .where('id', '=', m.id).where('status', '=', 'queued').executeTakeFirst()
       if (claim.numUpdatedRows) due.push(m)
     }
@@ -81,7 +82,7 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
         messageId: m.message_id, from, to: m.to_name ? { name: m.to_name, address: m.to_email } : m.to_email,
         subject: m.subject, html: m.html, text: m.text, attachments: JSON.parse(m.attachments),
       })
-      await db.updateTable('outbox').set({ status: 'sent', sent_at: new Date().toISOString(), attempts: m.attempts + 1, last_error: null, sending_since: null }).where('id', '=', m.id).execute()
+      await db.updateTable('outbox').set({ status: 'sent', sent_at: nowIso(), attempts: m.attempts + 1, last_error: null, sending_since: null }).where('id', '=', m.id).execute()
       sent++
     } catch (e) {
       const attempts = m.attempts + 1
@@ -89,7 +90,7 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
       const wait = Math.min(OUTBOX.capBackoffMs, OUTBOX.baseBackoffMs * 2 ** (attempts - 1))
       await db.updateTable('outbox').set({
         status: give ? 'failed' : 'queued', attempts, last_error: (e as Error).message.slice(0, 500), sending_since: null,
-        next_attempt_at: new Date(Date.now() + wait).toISOString(),
+        next_attempt_at: new Date(nowMs() + wait).toISOString(),
       }).where('id', '=', m.id).execute()
       failed++
     }
@@ -98,7 +99,7 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
 }
 
 export async function retryMessage(db: Kysely<Database>, id: number): Promise<boolean> {
-  const r = await db.updateTable('outbox').set({ status: 'queued', attempts: 0, next_attempt_at: new Date().toISOString(), last_error: null })
+  const r = await db.updateTable('outbox').set({ status: 'queued', attempts: 0, next_attempt_at: nowIso(), last_error: null })
     .where('id', '=', id).where('status', '=', 'failed').executeTakeFirst()
   return !!r.numUpdatedRows
 }

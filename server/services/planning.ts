@@ -9,6 +9,7 @@ import { audit } from './audit'
 import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
 import { siteHorizon, terrainFor, type Terrain } from './terrain'
+import { nowIso } from './clock'
 
 export type { SiteRow } from '../database/schema'
 export type { CloudLookup } from './climatology'
@@ -172,7 +173,7 @@ export async function updateSite(db: Kysely<Database>, id: number, patch: SitePa
   await getSite(db, id)
   const v = toValues(patch)
   if (Object.keys(v).length === 0) return
-  await db.updateTable('sites').set({ ...v, updated_at: new Date().toISOString() } as never).where('id', '=', id).execute()
+  await db.updateTable('sites').set({ ...v, updated_at: nowIso() } as never).where('id', '=', id).execute()
 }
 
 /** A site that a trip uses cannot be deleted: the trip would lose its timetable. */

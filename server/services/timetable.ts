@@ -17,6 +17,7 @@ import { elementsInForce } from './eclipses'
 import { getWorkspace, NotFoundError, zoneAt } from './planning'
 import { siteHorizon, terrainFor, terrainWarnings } from './terrain'
 import { getTripRow, isTripGuide, type TripRow } from './trips'
+import { nowIso, nowMs } from './clock'
 
 export const compass = compassShort
 
@@ -103,7 +104,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }, { profile: false })
     return {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
-      zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(Date.now(), zone).utcOffset,
+      zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(nowMs(), zone).utcOffset,
       type: r.type, kind, words: phaseWords(kind), durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
       contacts, cues, notice: plan.notice,
       filtersOffWindow: plan.window ? { startUtc: isoTenths(plan.window.startMs), endUtc: isoTenths(plan.window.endMs) } : null,
@@ -130,7 +131,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       cueOffsets: offsets,
     },
     sites, safety: safetyLines(primaryKind), words: phaseWords(primaryKind), elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec,
-    time: sites[0]?.time, generatedAt: new Date().toISOString(),
+    time: sites[0]?.time, generatedAt: nowIso(),
   }
 }
 export type Timetable = Awaited<ReturnType<typeof timetable>>

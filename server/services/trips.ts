@@ -8,6 +8,7 @@ import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { elementsInForce } from './eclipses'
 import { getSite, NotFoundError, zoneAt } from './planning'
+import { nowIso } from './clock'
 
 export type TripRow = Selectable<TripsTable>
 export class TripRuleError extends Error {
@@ -77,13 +78,13 @@ export async function publishTrip(db: Kysely<Database>, user: User, id: number) 
 }
 
 /** Seats held (and not lapsed) or confirmed, and seats reserved by live waitlist offers. */
-export async function seatUse(db: Kysely<Database>, tripId: number, nowIso = new Date().toISOString(), exceptUserId?: number) {
+export async function seatUse(db: Kysely<Database>, tripId: number, atIso = nowIso(), exceptUserId?: number) {
   const taken = await db.selectFrom('bookings').select((eb) => eb.fn.coalesce(eb.fn.sum<number>('seats'), eb.val(0)).as('n'))
     .where('trip_id', '=', tripId)
-    .where((eb) => eb.or([eb('status', '=', 'confirmed'), eb.and([eb('status', '=', 'held'), eb('hold_expires_at', '>', nowIso)])]))
+    .where((eb) => eb.or([eb('status', '=', 'confirmed'), eb.and([eb('status', '=', 'held'), eb('hold_expires_at', '>', atIso)])]))
     .executeTakeFirstOrThrow()
   let offers = db.selectFrom('waitlist').select((eb) => eb.fn.coalesce(eb.fn.sum<number>('seats'), eb.val(0)).as('n'))
-    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '>', nowIso)
+    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '>', atIso)
   if (exceptUserId) offers = offers.where('user_id', '!=', exceptUserId)
   const offered = await offers.executeTakeFirstOrThrow()
   return { taken: Number(taken.n), offered: Number(offered.n) }

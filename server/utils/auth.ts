@@ -1,6 +1,7 @@
 import type { H3Event } from 'h3'
 import type { Role, User } from '../database/schema'
 import type { PublicUser } from '#shared/schemas/auth'
+import { nowIso, nowMs } from '../services/clock'
 
 export function toPublicUser(u: User): PublicUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
@@ -12,7 +13,7 @@ const RENEW_AFTER_MS = 3600_000
 
 /** Starts (or renews) the caller's session under the user's current session version. */
 export async function startSession(event: H3Event, user: User) {
-  const now = new Date().toISOString()
+  const now = nowIso()
   await replaceUserSession(event, { user: { id: user.id, name: user.name, role: user.role }, version: user.session_version, loggedInAt: now, renewedAt: now })
 }
 
@@ -32,8 +33,8 @@ export async function requireUser(event: H3Event): Promise<User> {
     throw createError({ statusCode: 401, statusMessage: 'Sign in first', message: 'Your session has ended: sign in again' })
   }
   const renewedAt = Date.parse((session as { renewedAt?: string }).renewedAt ?? '')
-  if (!(renewedAt > Date.now() - RENEW_AFTER_MS)) {
-    await replaceUserSession(event, { ...session, renewedAt: new Date().toISOString() })
+  if (!(renewedAt > nowMs() - RENEW_AFTER_MS)) {
+    await replaceUserSession(event, { ...session, renewedAt: nowIso() })
   }
   return user
 }

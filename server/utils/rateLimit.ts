@@ -2,6 +2,7 @@ import type { H3Event } from 'h3'
 import type { Kysely } from 'kysely'
 import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
+import { nowIso, nowMs } from '../services/clock'
 
 /**
  * Limits abuse-prone requests per key (sign-up per address, seat holds per account, public routes
@@ -22,7 +23,7 @@ export async function rateLimit(event: H3Event, key: string, limit: number, wind
   await dbReady()
   const db = useDb()
   if (isPostgres(db)) return sharedRateLimit(event, db, key, limit, windowMs)
-  const now = Date.now()
+  const now = nowMs()
   const recent = (hits.get(key) ?? []).filter((t) => t > now - windowMs)
   if (recent.length >= limit) refuse(event, Math.ceil((recent[0]! + windowMs - now) / 1000))
   recent.push(now)
@@ -32,7 +33,7 @@ export async function rateLimit(event: H3Event, key: string, limit: number, wind
 }
 
 async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string, limit: number, windowMs: number): Promise<void> {
-  const now = Date.now()
+  const now = nowMs()
   const start = Math.floor(now / windowMs) * windowMs
   const row = await db.insertInto('rate_limit_hits')
     // Kept two windows: the next window still reads this one.
@@ -50,5 +51,5 @@ async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string
 
 /** Drops expired windows (housekeeping). */
 export async function pruneRateLimits(db: Kysely<Database>): Promise<void> {
-  await db.deleteFrom('rate_limit_hits').where('expires_at', '<', new Date().toISOString()).execute()
+  await db.deleteFrom('rate_limit_hits').where('expires_at', '<', nowIso()).execute()
 }

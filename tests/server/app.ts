@@ -61,6 +61,8 @@ export async function useApp(env: Record<string, string> = {}) {
       UMBRAFIELD_HOLD_LIMIT: '1000',
       UMBRAFIELD_SIGNUP_LIMIT: '1000',
       UMBRAFIELD_REFUND_RETRY_MS: '500',
+      // Tests move the app's clock (POST /_test/clock) rather than sleep until holds and offers lapse.
+      UMBRAFIELD_TEST_CLOCK: '1',
       ...fakeEnv,
       ...env,
     },
@@ -98,6 +100,16 @@ export async function signIn(email: string, password = 'eclipse-demo', from?: st
   const res = await fetch(url('/api/auth/login'), { method: 'POST', headers, body: JSON.stringify({ email, password }) })
   if (res.status !== 200) throw new Error(`sign-in failed for ${email}: ${res.status}`)
   return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+}
+
+/**
+ * Moves the app's clock forward by `ms` (the app under test only; each instance has its own clock).
+ * Returns the app's new "now".
+ */
+export async function advanceClock(ms: number, base?: string): Promise<string> {
+  const res = await fetch(base ? `${base}/_test/clock` : url('/_test/clock'), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ advanceMs: Math.round(ms) }) })
+  if (res.status !== 200) throw new Error(`the test clock did not move: ${res.status} ${await res.text()}`)
+  return ((await res.json()) as { nowIso: string }).nowIso
 }
 
 export const ORGANISER = 'organiser@umbrafield.test'

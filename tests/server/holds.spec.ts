@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest'
-import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { advanceClock, api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
 
-// Holds of 3 seconds so that lapsing can be watched; at most 3 hold requests per account in 10 minutes.
-await useApp({ NUXT_HOLD_MINUTES: '0.05', UMBRAFIELD_HOLD_LIMIT: '3' })
+// Holds of 5 minutes, lapsed by moving the app's clock; at most 3 hold requests per account in 10 minutes.
+const HOLD_MINUTES = 5
+await useApp({ NUXT_HOLD_MINUTES: String(HOLD_MINUTES), UMBRAFIELD_HOLD_LIMIT: '3' })
 
 describe('lapsed holds', () => {
   it('a declined card leaves the hold to lapse, and the seats return', async () => {
@@ -24,7 +25,10 @@ describe('lapsed holds', () => {
     const r = await (await fetch(`${STRIPE_FAKE}/_fake/checkout/sessions/${c.body.url.split('/pay/')[1]}/complete`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ outcome: 'declined' }) })).json()
     expect(r.ok).toBe(false)
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('held')
-    await new Promise((res) => setTimeout(res, 3500))
+    // Just before the end of the hold the seats are still taken; just after, they are free again.
+    await advanceClock(HOLD_MINUTES * 60_000 - 30_000)
+    expect((await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER2) })).body.code).toBe('sold_out')
+    await advanceClock(60_000)
     const again = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 2 }, cookie: trav })
     expect(again.status).toBe(201)
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('expired')

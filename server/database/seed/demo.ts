@@ -2,6 +2,7 @@ import type { Kysely } from 'kysely'
 import { parseCsvGrid, storeDataset } from '../../services/climatology'
 import type { Database, Role } from '../schema'
 import { DEMO_CLOUD_NAME, DEMO_CLOUD_SOURCE, demoCloudCsv } from './demoCloud'
+import { nowIso } from '../../services/clock'
 
 /**
  * The invented demo scenario (demo data only): Kestrel Sky Journeys, a small company planning
@@ -58,7 +59,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
   await db.transaction().execute(async (trx) => {
     for (const a of DEMO_ACCOUNTS) {
       // Demo accounts count as confirmed: their addresses are invented and take no mail.
-      await trx.insertInto('users').values({ email: a.email, name: a.name, role: a.role, password_hash: hash, email_confirmed_at: new Date().toISOString() })
+      await trx.insertInto('users').values({ email: a.email, name: a.name, role: a.role, password_hash: hash, email_confirmed_at: nowIso() })
         .onConflict((oc) => oc.column('email').doNothing()).execute()
     }
     const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
