@@ -10,8 +10,10 @@ import { timeBasisAt } from '../../shared/eclipse/timeScales'
 import { COMPUTED_ELEMENTS_KM, LIMB_PROFILE_SEC, PUBLISHED_ELEMENTS_KM, contactUncertainty } from '../../shared/eclipse/uncertainty'
 import { canonSet, usnoLocal, type UsnoLocalRow } from './reference'
 
-// Independent published predictions, made with JPL ephemerides rather than the Canon's series.
-// Each check gives the engine the publisher's ΔT and reads times on TT (clock offset 0), as published.
+// Published predictions from official offices (NASA's eclipse bulletins and path tables, the U.S. Naval
+// Observatory), each named beside its values. Every check gives the engine the ΔT the publisher states;
+// the bulletin checks read times on TT (clock offset 0) as those tables print them, the USNO checks
+// read UTC through the leap-second table. Each bound names the terms it is made of.
 const dms = (d: number, m: number) => d + m / 60
 
 describe('1998-02-26 total eclipse against NASA RP 1383 (JPL DE200/LE200)', () => {
