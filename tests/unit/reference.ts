@@ -35,3 +35,25 @@ export function canonGreatest(): GreatestRow[] {
     }
   })
 }
+
+export type ContactKey = 'c1' | 'c2' | 'max' | 'c3' | 'c4'
+export interface UsnoLocalRow {
+  eclipse: string; site: string; latDeg: number; lonDeg: number; heightM: number; deltaTSec: number
+  /** UT1 as printed (hh:mm:ss.s); absent where USNO gives none; 'sunrise' / 'sunset' where USNO gives the horizon instead. */
+  times: Partial<Record<ContactKey, string>>
+  source: 'usno-api' | 'usno-2013'
+}
+/** Local circumstances at named sites from the U.S. Naval Observatory's Solar Eclipse Computer (see the file's header). */
+export function usnoLocal(): UsnoLocalRow[] {
+  const text = readFileSync(resolve(REFERENCE_DIR, 'usno-local-circumstances.csv'), 'utf8')
+  const keys: ContactKey[] = ['c1', 'c2', 'max', 'c3', 'c4']
+  return text.split(/\r?\n/).filter((l) => /^\d{4}-/.test(l)).map((l) => {
+    const c = l.split(',')
+    const times: UsnoLocalRow['times'] = {}
+    keys.forEach((k, i) => { if (c[6 + i]) times[k] = c[6 + i] })
+    return {
+      eclipse: c[0]!, site: c[1]!, latDeg: Number(c[2]), lonDeg: Number(c[3]), heightM: Number(c[4]),
+      deltaTSec: Number(c[5]), times, source: c[11] as UsnoLocalRow['source'],
+    }
+  })
+}
