@@ -209,18 +209,23 @@ export function cueOffsetProblems(input: CueInput, siteName: string): Array<{ ke
   }
   const offDef = defs.find((d) => d.key === 'filters-off')
   const onDef = defs.find((d) => d.key === 'filters-on')
+  // Where planCues puts "filters-off" and "filters-on": the other filters-off cues are kept between the two,
+  // so one asked outside them would be moved; it is refused here instead, naming the range.
+  const offAt = offDef ? Math.max(window.startMs, Math.min(at(offDef), window.endMs)) : window.startMs
+  const onAt = onDef ? Math.max(offAt, Math.min(at(onDef), window.endMs)) : window.endMs
   for (const d of defs) {
     if (d.filters !== 'off' || offsets[d.key] === undefined) continue
     const t = at(d)
     if (t < window.startMs || t > window.endMs) {
       problems.push({ key: d.key, message: `"${d.key}" calls for filters off but at ${fmtOffset(d.anchor, offsets[d.key]!)} it falls outside the safe window at ${siteName}; allowed: ${range(d, window.startMs, window.endMs)}` })
+    } else if (d.key !== 'filters-off' && (t < offAt || t > onAt)) {
+      problems.push({ key: d.key, message: `"${d.key}" at ${fmtOffset(d.anchor, offsets[d.key]!)} falls outside the time between "filters-off" and "filters-on" at ${siteName}; allowed: ${range(d, offAt, onAt)}` })
     }
   }
   if (onDef && offsets[onDef.key] !== undefined) {
     const t = at(onDef)
-    const lo = offDef ? Math.max(window.startMs, Math.min(at(offDef), window.endMs)) : window.startMs
-    if (t > window.endMs || t < lo) {
-      problems.push({ key: onDef.key, message: `"filters-on" at ${fmtOffset('c3', offsets[onDef.key]!)} would leave filters off outside the safe window at ${siteName}; allowed: ${range(onDef, lo, window.endMs)}` })
+    if (t > window.endMs || t < offAt) {
+      problems.push({ key: onDef.key, message: `"filters-on" at ${fmtOffset('c3', offsets[onDef.key]!)} would leave filters off outside the safe window at ${siteName}; allowed: ${range(onDef, offAt, window.endMs)}` })
     }
   }
   return problems

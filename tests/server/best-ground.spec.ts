@@ -69,6 +69,49 @@ describe('expected-seen surface', () => {
   })
 })
 
+describe('the point read-out and the surface agree', () => {
+  it('reads out, at the centre of cells across the surface, a value inside the band its grid cell is drawn in', async () => {
+    const org = await signIn(ORGANISER)
+    const surface = (await api('/api/workspaces/1/expected-seen', { cookie: org })).body
+    const step = surface.properties.grid.stepDeg as number
+    const h = step / 2
+    const top = surface.properties.legend.length - 1
+    type Band = { band: number; fromSec: number; toSec: number }
+    // Every drawn rectangle is a run of whole cells along one row: [west, south], [east, south], [east, north], [west, north].
+    const rects: Array<{ w: number; e: number; s: number; n: number; band: Band }> = []
+    for (const f of surface.features) for (const poly of f.geometry.coordinates) {
+      const ring = poly[0] as number[][]
+      rects.push({ w: ring[0]![0]!, e: ring[1]![0]!, s: ring[0]![1]!, n: ring[2]![1]!, band: f.properties })
+    }
+    expect(rects.length).toBeGreaterThan(100)
+    const bandsAt = (lat: number, lon: number) => rects.filter((r) => lon > r.w && lon < r.e && lat > r.s && lat < r.n).map((r) => r.band)
+    // 60 rectangles spread over the surface (ordered by latitude, then longitude); in each its first, middle and last cell.
+    rects.sort((a, b) => a.s - b.s || a.w - b.w)
+    const chosen = Array.from({ length: 60 }, (_, i) => rects[Math.round((i * (rects.length - 1)) / 59)]!)
+    const problems: string[] = []
+    let checked = 0
+    for (const r of chosen) {
+      const cellsIn = Math.round((r.e - r.w) / step)
+      const lat = Math.round(((r.s + r.n) / 2) * 1e4) / 1e4
+      for (const k of new Set([0, Math.floor(cellsIn / 2), cellsIn - 1])) {
+        const lon = Math.round((r.w + h + k * step) * 1e4) / 1e4
+        const bands = bandsAt(lat, lon)
+        if (bands.length !== 1) { problems.push(`${lat},${lon}: drawn in ${bands.length} bands`); continue }
+        const b = bands[0]!
+        const p = (await api(`/api/workspaces/1/expected-seen/point?lat=${lat}&lon=${lon}`, { cookie: org })).body
+        // 1 s: the surface's duration against the full solution; 0.25 s more for the read-out's rounding
+        // (duration to 0.1 s, P(clear) to 0.001 of at most ~400 s).
+        const tol = 1.25
+        if (!(p.durationSec > 0 && p.pClear !== null && p.sunAltitudeDeg >= 0)) problems.push(`${lat},${lon}: band ${b.band} but the read-out has no value: ${JSON.stringify(p)}`)
+        else if (p.expectedSec < b.fromSec - tol || (b.band < top && p.expectedSec >= b.toSec + tol)) problems.push(`${lat},${lon}: read-out ${p.expectedSec} s, band ${b.fromSec}–${b.toSec} s`)
+        checked++
+      }
+    }
+    expect(problems).toEqual([])
+    expect(checked).toBeGreaterThanOrEqual(120)
+  })
+})
+
 describe('best spots', () => {
   it('finds ground within 150 km of Luxor at least as good as every candidate site there, on land, 5 km apart', async () => {
     const org = await signIn(ORGANISER)

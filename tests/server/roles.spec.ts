@@ -1,106 +1,189 @@
 import { readdirSync, statSync } from 'node:fs'
 import { join, relative, resolve } from 'node:path'
-import { beforeAll, describe, expect, it } from 'vitest'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, useApp } from './app'
+import { url } from '@nuxt/test-utils/e2e'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { openDatabase } from '../../server/database/connection'
+import { DEMO_TRIP_TITLE, DEMO_WORKSPACE } from '../../server/database/seed/demo'
+import { api, GUIDE, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
 
-await useApp()
+const { dbTarget } = await useApp()
+const db = openDatabase(dbTarget)
+afterAll(() => db.destroy())
 
 /**
- * Who may call what: every route under server/api, for each kind of caller. "public" routes answer
- * anyone; "user" routes any signed-in person (scoped to their own rows: someone else's is a 404);
- * "staff" routes organisers and the guides assigned to the trip or workspace (another guide gets a
- * 404, a traveller a 403); "booked" routes organisers, the trip's guides and travellers booked on the trip
- * (the demo traveller has no booking on trip 1: a 404, as for anyone else outside it); "guides" routes
- * organisers and every guide; "organiser" routes organisers only.
- * Denied means 401 signed out, 403 for a role that never may, 404 for a row outside the caller's reach.
+ * Who may call what: every route under server/api, for every kind of caller, with the exact status
+ * each must get. Allowed callers get the route's success (200/201/202) or, where the row sends an
+ * empty or invalid body on purpose, the exact 400 that body earns. Denied callers get 401 signed out,
+ * 403 for a role that never may, 404 for a row outside the caller's reach. Nothing may answer 500.
+ *
+ * Callers, in the order each row calls them (the organiser last, so a row's destructive call comes
+ * after everyone else's):
+ *   anon     signed out
+ *   trav     traveller@ — a traveller with no booking on any trip
+ *   booked   traveller2@ — holds the demo's confirmed booking on the Luxor trip
+ *   guide    guide@ — assigned to the demo trips (so to the demo workspaces)
+ *   other    a guide invited here, assigned to nothing
+ *   org      organiser@
  */
-type Access = 'public' | 'user' | 'staff' | 'booked' | 'guides' | 'organiser'
-const ROUTES: Array<[string, string, Access]> = [
-  ['POST', '/api/auth/confirmation', 'user'],
-  ['POST', '/api/auth/login', 'public'],
-  ['POST', '/api/auth/logout', 'public'],
-  ['POST', '/api/auth/register', 'public'],
-  ['POST', '/api/auth/sign-out-everywhere', 'user'],
-  ['POST', '/api/auth/verify-email', 'public'],
-  ['PATCH', '/api/bookings/1', 'user'],
-  ['POST', '/api/bookings/1/cancel', 'user'],
-  ['POST', '/api/bookings/1/checkout', 'user'],
-  ['GET', '/api/bookings/1', 'user'],
-  ['POST', '/api/bookings/1/refund', 'organiser'],
-  ['GET', '/api/bookings', 'user'],
-  ['GET', '/api/climatology', 'guides'],
-  ['POST', '/api/climatology', 'organiser'],
-  ['DELETE', '/api/eclipses/2027-08-02/elements', 'organiser'],
-  ['PUT', '/api/eclipses/2027-08-02/elements', 'organiser'],
-  ['GET', '/api/eclipses/2027-08-02', 'public'],
-  ['GET', '/api/eclipses/2027-08-02/local?lat=25.7&lon=32.6', 'public'],
-  ['GET', '/api/eclipses/2027-08-02/path?step=600', 'public'],
-  ['PATCH', '/api/eclipses/2027-08-02/settings', 'organiser'],
-  ['GET', '/api/eclipses', 'public'],
-  ['GET', '/api/health', 'public'],
-  ['GET', '/api/me', 'user'],
-  ['PATCH', '/api/me', 'user'],
-  ['POST', '/api/outbox/1/retry', 'organiser'],
-  ['GET', '/api/outbox', 'organiser'],
-  ['GET', '/api/places?q=Luxor', 'guides'],
-  ['GET', '/api/reconciliation', 'organiser'],
-  ['POST', '/api/reconciliation/run', 'organiser'],
-  ['DELETE', '/api/sites/1', 'organiser'],
-  ['PATCH', '/api/sites/2', 'organiser'],
-  ['POST', '/api/stripe/webhook', 'public'],
-  ['GET', '/api/trips/1/briefing', 'booked'],
-  ['PUT', '/api/trips/1/checklist', 'organiser'],
-  ['GET', '/api/trips/1/bookings.csv', 'organiser'],
-  ['GET', '/api/trips/1/bookings', 'organiser'],
-  ['POST', '/api/trips/1/bookings', 'user'],
-  ['PUT', '/api/trips/1/cues', 'staff'],
-  ['GET', '/api/trips/1', 'public'],
-  ['GET', '/api/trips/1/itinerary', 'organiser'],
-  ['POST', '/api/trips/1/itinerary', 'organiser'],
-  ['GET', '/api/trips/1/participants', 'staff'],
-  ['POST', '/api/trips/1/publish', 'organiser'],
-  ['GET', '/api/trips/1/sites/4/timetable.ics', 'staff'],
-  ['GET', '/api/trips/1/timetable', 'staff'],
-  ['GET', '/api/trips/1/timetable.pdf', 'staff'],
-  ['POST', '/api/trips/1/waitlist', 'user'],
-  ['GET', '/api/trips', 'public'],
-  ['POST', '/api/trips', 'organiser'],
-  ['PATCH', '/api/users/3', 'organiser'],
-  ['GET', '/api/users', 'organiser'],
-  ['POST', '/api/users', 'organiser'],
-  ['GET', '/api/workspaces/1/cloud-layer', 'staff'],
-  ['GET', '/api/workspaces/1/expected-seen', 'staff'],
-  ['GET', '/api/workspaces/1/expected-seen/point?lat=25.7&lon=32.6', 'staff'],
-  ['GET', '/api/workspaces/1/best-spots?lat=25.7&lon=32.6&radiusKm=20&limit=2', 'staff'],
-  ['GET', '/api/workspaces/1/terrain', 'staff'],
-  ['POST', '/api/workspaces/1/terrain', 'organiser'],
-  ['GET', '/api/workspaces/1/export.csv', 'staff'],
-  ['GET', '/api/workspaces/1/export.geojson', 'staff'],
-  ['GET', '/api/workspaces/1/export.gpx', 'staff'],
-  ['GET', '/api/workspaces/1/export.kml', 'staff'],
-  ['GET', '/api/workspaces/1', 'staff'],
-  ['PATCH', '/api/workspaces/1', 'organiser'],
-  ['POST', '/api/workspaces/1/sites/import', 'organiser'],
-  ['GET', '/api/workspaces/1/sites', 'staff'],
-  ['POST', '/api/workspaces/1/sites', 'organiser'],
-  ['GET', '/api/workspaces', 'guides'],
-  ['POST', '/api/workspaces', 'organiser'],
+const CALLERS = ['anon', 'trav', 'booked', 'guide', 'other', 'org'] as const
+type Caller = (typeof CALLERS)[number]
+type Want = readonly [anon: number, trav: number, booked: number, guide: number, other: number, org: number]
+
+/** Fixtures made in beforeAll; rows read them when they run. */
+const fx = {
+  cookies: new Map<Caller, string>(),
+  passwords: new Map<Caller, string>(),
+  emails: new Map<Caller, string>(),
+  /** The demo's Luxor trip, its workspace and primary site, and the booked traveller's booking on it. */
+  luxorTrip: 0, luxorWs: 0, luxorSite: 0, luxorBooking: 0,
+  /** A published trip on which the booked traveller keeps an active hold (the hold-changing rows use it). */
+  ownTrip: 0,
+  /** A published trip with room: every signed-in caller may hold a seat on it. */
+  openTrip: 0,
+  /** A published trip whose one seat a filler account holds: every signed-in caller may join its waitlist. */
+  fullTrip: 0,
+  /** A site used by no trip, made for the delete row. */
+  spareSite: 0,
+  /** The unassigned guide's user id (the role-change row sets it to the role it already has). */
+  otherId: 0,
+  outboxId: 0,
+}
+
+const tripBody = (over: Record<string, unknown> = {}) => ({
+  workspaceId: fx.luxorWs, primarySiteId: fx.luxorSite, title: 'Roles matrix trip', startDate: '2027-07-31', endDate: '2027-08-03',
+  seats: 20, priceMinor: 100_000, depositMinor: 20_000, currency: 'EUR', balanceDueDate: '2027-05-01',
+  cancellationTiers: [{ until: '2099-01-01', refundPct: 100 }], minGroupSize: 1,
+  meetingPoint: { name: 'Hotel (test)', lat: 25.69, lon: 32.64, time: '2027-08-02T06:30:00+03:00' }, ...over,
+})
+
+async function publishedTrip(org: string, over: Record<string, unknown>) {
+  const t = await api('/api/trips', { method: 'POST', body: tripBody(over), cookie: org })
+  expect(t.status, JSON.stringify(t.body)).toBe(201)
+  expect((await api(`/api/trips/${t.body.id}/publish`, { method: 'POST', cookie: org })).status).toBe(200)
+  return t.body.id as number
+}
+
+/** The booked traveller's active hold on ownTrip, made anew when an earlier row cancelled it. */
+async function activeHold(): Promise<number> {
+  const r = await api(`/api/trips/${fx.ownTrip}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: fx.cookies.get('booked') })
+  if (r.status === 201) return r.body.id
+  if (r.status === 409 && r.body.code === 'hold_exists') return r.body.bookingId
+  throw new Error(`could not hold a seat for the booked traveller: ${r.status} ${JSON.stringify(r.body)}`)
+}
+
+let seq = 0
+const unique = () => `${Date.now().toString(36)}-${++seq}`
+
+interface Row {
+  method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE'
+  /** The route file under server/api, without `.ts`: the coverage check matches rows to files by it. */
+  file: string
+  path: (c: Caller) => string | Promise<string>
+  /** A JSON body; absent for GET/DELETE and for the multipart upload routes (sent with no body). */
+  body?: (c: Caller) => unknown
+  want: Want
+  /** Why a status is what it is, where the table alone does not say. */
+  note?: string
+}
+
+const json = (b: unknown) => () => b
+// Common shapes, caller order as in CALLERS.
+const PUBLIC = (s: number): Want => [s, s, s, s, s, s]
+const USER = (s: number): Want => [401, s, s, s, s, s]
+const GUIDES = (s: number): Want => [401, 403, 403, s, s, s]
+const STAFF = (s: number): Want => [401, 403, 403, s, 404, s]
+const ORGANISER_ONLY = (s: number): Want => [401, 403, 403, 403, 403, s]
+
+const ROWS: Row[] = [
+  // Signing in, signing up and confirming take a body; an empty one is a 400 for anyone.
+  { method: 'POST', file: 'auth/login.post', path: () => '/api/auth/login', body: json({}), want: PUBLIC(400) },
+  { method: 'POST', file: 'auth/register.post', path: () => '/api/auth/register', body: json({}), want: PUBLIC(400) },
+  { method: 'POST', file: 'auth/verify-email.post', path: () => '/api/auth/verify-email', body: json({}), want: PUBLIC(400) },
+  { method: 'POST', file: 'auth/confirmation.post', path: () => '/api/auth/confirmation', body: json({}), want: USER(200), note: 'every caller here is confirmed: "already confirmed"' },
+
+  { method: 'GET', file: 'bookings/index.get', path: () => '/api/bookings', want: USER(200) },
+  { method: 'GET', file: 'bookings/[id]/index.get', path: () => `/api/bookings/${fx.luxorBooking}`, want: [401, 404, 200, 404, 404, 200], note: 'the owner and organisers' },
+  { method: 'PATCH', file: 'bookings/[id].patch', path: async () => `/api/bookings/${await activeHold()}`, body: json({ seats: 2 }), want: [401, 404, 200, 404, 404, 404], note: 'only the holder changes the seats of a hold' },
+  { method: 'POST', file: 'bookings/[id]/checkout.post', path: async () => `/api/bookings/${await activeHold()}/checkout`, body: json({}), want: [401, 404, 200, 404, 404, 404], note: 'only the holder pays' },
+  { method: 'POST', file: 'bookings/[id]/cancel.post', path: async () => `/api/bookings/${await activeHold()}/cancel`, body: json({}), want: [401, 404, 200, 404, 404, 200], note: 'the holder or an organiser; a fresh hold for each caller' },
+  { method: 'POST', file: 'bookings/[id]/refund.post', path: () => `/api/bookings/${fx.luxorBooking}/refund`, body: json({ amountMinor: 100, reason: 'roles matrix' }), want: ORGANISER_ONLY(200) },
+
+  { method: 'GET', file: 'climatology/index.get', path: () => '/api/climatology', want: GUIDES(200) },
+  { method: 'POST', file: 'climatology/index.post', path: () => '/api/climatology', want: ORGANISER_ONLY(400), note: 'multipart only: no form is a 400 naming the fields' },
+
+  { method: 'GET', file: 'eclipses/index.get', path: () => '/api/eclipses', want: PUBLIC(200) },
+  { method: 'GET', file: 'eclipses/[id]/index.get', path: () => '/api/eclipses/2027-08-02', want: PUBLIC(200) },
+  { method: 'GET', file: 'eclipses/[id]/local.get', path: () => '/api/eclipses/2027-08-02/local?lat=25.7&lon=32.6', want: PUBLIC(200) },
+  { method: 'GET', file: 'eclipses/[id]/path.get', path: () => '/api/eclipses/2027-08-02/path?step=600', want: PUBLIC(200) },
+  { method: 'PUT', file: 'eclipses/[id]/elements.put', path: () => '/api/eclipses/2027-08-02/elements', body: json({}), want: ORGANISER_ONLY(400) },
+  { method: 'DELETE', file: 'eclipses/[id]/elements.delete', path: () => '/api/eclipses/2027-08-02/elements', want: ORGANISER_ONLY(200), note: 'no published set stored: removing none is fine' },
+  { method: 'PATCH', file: 'eclipses/[id]/settings.patch', path: () => '/api/eclipses/2027-08-02/settings', body: json({ deltaTSec: null }), want: ORGANISER_ONLY(200), note: 'null clears the ΔT override (there is none)' },
+
+  { method: 'GET', file: 'health.get', path: () => '/api/health', want: PUBLIC(200) },
+  { method: 'GET', file: 'me.get', path: () => '/api/me', want: USER(200) },
+  { method: 'PATCH', file: 'me.patch', path: () => '/api/me', body: json({}), want: USER(200), note: 'an empty patch changes nothing' },
+
+  { method: 'GET', file: 'outbox/index.get', path: () => '/api/outbox', want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'outbox/[id]/retry.post', path: () => `/api/outbox/${fx.outboxId}/retry`, body: json({}), want: ORGANISER_ONLY(200), note: 'a message marked failed in beforeAll' },
+
+  { method: 'GET', file: 'places/index.get', path: () => '/api/places?q=Luxor', want: GUIDES(200) },
+  { method: 'GET', file: 'reconciliation/index.get', path: () => '/api/reconciliation', want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'reconciliation/run.post', path: () => '/api/reconciliation/run', body: json({}), want: ORGANISER_ONLY(200) },
+
+  { method: 'PATCH', file: 'sites/[id].patch', path: () => `/api/sites/${fx.luxorSite}`, body: json({}), want: ORGANISER_ONLY(200), note: 'an empty patch changes nothing' },
+  { method: 'DELETE', file: 'sites/[id].delete', path: () => `/api/sites/${fx.spareSite}`, want: ORGANISER_ONLY(200) },
+
+  { method: 'POST', file: 'stripe/webhook.post', path: () => '/api/stripe/webhook', body: json({}), want: PUBLIC(400), note: 'unsigned: refused for anyone' },
+
+  { method: 'GET', file: 'trips/index.get', path: () => '/api/trips', want: PUBLIC(200) },
+  { method: 'POST', file: 'trips/index.post', path: () => '/api/trips', body: () => tripBody({ title: `Roles matrix ${unique()}` }), want: ORGANISER_ONLY(201) },
+  { method: 'GET', file: 'trips/[id]/index.get', path: () => `/api/trips/${fx.luxorTrip}`, want: PUBLIC(200) },
+  { method: 'POST', file: 'trips/[id]/publish.post', path: () => `/api/trips/${fx.luxorTrip}/publish`, body: json({}), want: ORGANISER_ONLY(200), note: 'already published: publishing again changes nothing' },
+  { method: 'GET', file: 'trips/[id]/bookings/index.get', path: () => `/api/trips/${fx.luxorTrip}/bookings`, want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'trips/[id]/bookings.csv.get', path: () => `/api/trips/${fx.luxorTrip}/bookings.csv`, want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'trips/[id]/bookings/index.post', path: () => `/api/trips/${fx.openTrip}/bookings`, body: json({ seats: 1 }), want: USER(201), note: 'any confirmed account may hold seats' },
+  { method: 'POST', file: 'trips/[id]/waitlist.post', path: () => `/api/trips/${fx.fullTrip}/waitlist`, body: json({ seats: 1 }), want: USER(201) },
+  { method: 'GET', file: 'trips/[id]/briefing.get', path: () => `/api/trips/${fx.luxorTrip}/briefing`, want: [401, 404, 200, 200, 404, 200], note: 'booked travellers, the trip\'s guides, organisers' },
+  { method: 'PUT', file: 'trips/[id]/checklist.put', path: () => `/api/trips/${fx.luxorTrip}/checklist`, body: json({ items: ['ISO 12312-2 eclipse viewers', 'Water'] }), want: ORGANISER_ONLY(200) },
+  { method: 'PUT', file: 'trips/[id]/cues.put', path: () => `/api/trips/${fx.luxorTrip}/cues`, body: json({ offsets: {} }), want: STAFF(200) },
+  { method: 'GET', file: 'trips/[id]/itinerary.get', path: () => `/api/trips/${fx.luxorTrip}/itinerary`, want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'trips/[id]/itinerary.post', path: () => `/api/trips/${fx.luxorTrip}/itinerary`, body: json({ confirm: true }), want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'trips/[id]/participants.get', path: () => `/api/trips/${fx.luxorTrip}/participants`, want: STAFF(200) },
+  { method: 'GET', file: 'trips/[id]/timetable.get', path: () => `/api/trips/${fx.luxorTrip}/timetable`, want: STAFF(200) },
+  { method: 'GET', file: 'trips/[id]/timetable.pdf.get', path: () => `/api/trips/${fx.luxorTrip}/timetable.pdf`, want: STAFF(200) },
+  { method: 'GET', file: 'trips/[id]/sites/[siteId]/timetable.ics.get', path: () => `/api/trips/${fx.luxorTrip}/sites/${fx.luxorSite}/timetable.ics`, want: STAFF(200) },
+
+  { method: 'GET', file: 'users/index.get', path: () => '/api/users', want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'users/index.post', path: () => '/api/users', body: () => ({ name: 'Roles Invitee', email: `roles-${unique()}@umbrafield.test`, role: 'guide' }), want: ORGANISER_ONLY(201) },
+  { method: 'PATCH', file: 'users/[id].patch', path: () => `/api/users/${fx.otherId}`, body: json({ role: 'guide' }), want: ORGANISER_ONLY(200), note: 'the role it already has' },
+
+  { method: 'GET', file: 'workspaces/index.get', path: () => '/api/workspaces', want: GUIDES(200), note: 'a guide on no trip gets an empty list' },
+  { method: 'POST', file: 'workspaces/index.post', path: () => '/api/workspaces', body: () => ({ eclipseId: '2027-08-02', name: `Roles matrix ${unique()}` }), want: ORGANISER_ONLY(201) },
+  { method: 'GET', file: 'workspaces/[id]/index.get', path: () => `/api/workspaces/${fx.luxorWs}`, want: STAFF(200) },
+  { method: 'PATCH', file: 'workspaces/[id]/index.patch', path: () => `/api/workspaces/${fx.luxorWs}`, body: json({}), want: ORGANISER_ONLY(200), note: 'an empty patch changes nothing' },
+  { method: 'GET', file: 'workspaces/[id]/sites/index.get', path: () => `/api/workspaces/${fx.luxorWs}/sites`, want: STAFF(200) },
+  { method: 'POST', file: 'workspaces/[id]/sites/index.post', path: () => `/api/workspaces/${fx.luxorWs}/sites`, body: () => ({ name: `Roles site ${unique()}`, lat: 25.9, lon: 32.7 }), want: ORGANISER_ONLY(201) },
+  { method: 'POST', file: 'workspaces/[id]/sites/import.post', path: () => `/api/workspaces/${fx.luxorWs}/sites/import`, want: ORGANISER_ONLY(400), note: 'multipart only: no file is a 400 naming it' },
+  { method: 'GET', file: 'workspaces/[id]/cloud-layer.get', path: () => `/api/workspaces/${fx.luxorWs}/cloud-layer`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/expected-seen/index.get', path: () => `/api/workspaces/${fx.luxorWs}/expected-seen`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/expected-seen/point.get', path: () => `/api/workspaces/${fx.luxorWs}/expected-seen/point?lat=25.7&lon=32.6`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/best-spots.get', path: () => `/api/workspaces/${fx.luxorWs}/best-spots?lat=25.7&lon=32.6&radiusKm=20&limit=2`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/terrain/index.get', path: () => `/api/workspaces/${fx.luxorWs}/terrain`, want: STAFF(200) },
+  { method: 'POST', file: 'workspaces/[id]/terrain/index.post', path: () => `/api/workspaces/${fx.luxorWs}/terrain`, want: ORGANISER_ONLY(400), note: 'multipart only: no file is a 400 naming it' },
+  { method: 'GET', file: 'workspaces/[id]/export.csv.get', path: () => `/api/workspaces/${fx.luxorWs}/export.csv`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/export.geojson.get', path: () => `/api/workspaces/${fx.luxorWs}/export.geojson`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/export.gpx.get', path: () => `/api/workspaces/${fx.luxorWs}/export.gpx`, want: STAFF(200) },
+  { method: 'GET', file: 'workspaces/[id]/export.kml.get', path: () => `/api/workspaces/${fx.luxorWs}/export.kml`, want: STAFF(200) },
 ]
 
-type Caller = 'signed out' | 'traveller' | 'guide (assigned)' | 'guide (not assigned)' | 'organiser'
-const CALLERS: Caller[] = ['signed out', 'traveller', 'guide (assigned)', 'guide (not assigned)', 'organiser']
-
-/** The statuses each caller must (or must not) get. */
-function expected(access: Access, caller: Caller): 'allowed' | 401 | 403 | 404 {
-  if (access === 'public') return 'allowed'
-  if (caller === 'signed out') return 401
-  if (access === 'user' || caller === 'organiser') return 'allowed'
-  if (access === 'booked') return caller === 'guide (assigned)' ? 'allowed' : 404
-  if (caller === 'traveller') return 403
-  if (access === 'guides') return 'allowed'
-  if (access === 'staff') return caller === 'guide (assigned)' ? 'allowed' : 404
-  return 403
-}
+/**
+ * Session-ending rows run last, each caller with a fresh sign-in: both raise the account's session
+ * version, which would end the sessions every other row uses.
+ */
+const SESSION_ENDING: Row[] = [
+  { method: 'POST', file: 'auth/logout.post', path: () => '/api/auth/logout', body: json({}), want: PUBLIC(200) },
+  { method: 'POST', file: 'auth/sign-out-everywhere.post', path: () => '/api/auth/sign-out-everywhere', body: json({}), want: USER(200) },
+]
 
 function routeFiles(dir: string): string[] {
   return readdirSync(dir).flatMap((f) => {
@@ -109,50 +192,103 @@ function routeFiles(dir: string): string[] {
   })
 }
 
-const cookies = new Map<Caller, string>()
 beforeAll(async () => {
   const org = await signIn(ORGANISER)
-  const inv = await api('/api/users', { method: 'POST', body: { name: 'Roles Other Guide', email: 'roles-other-guide@umbrafield.test', role: 'guide' }, cookie: org })
-  cookies.set('signed out', '')
-  cookies.set('traveller', await signIn(TRAVELLER))
-  cookies.set('guide (assigned)', await signIn(GUIDE))
-  cookies.set('guide (not assigned)', await signIn('roles-other-guide@umbrafield.test', inv.body.temporaryPassword))
-  cookies.set('organiser', org)
-})
+  const invite = async (name: string) => {
+    const email = `roles-${name}-${unique()}@umbrafield.test`
+    const r = await api('/api/users', { method: 'POST', body: { name: `Roles ${name} (test)`, email, role: 'guide' }, cookie: org })
+    expect(r.status).toBe(201)
+    return { email, password: r.body.temporaryPassword as string, id: r.body.user.id as number }
+  }
+  const other = await invite('unassigned-guide')
+  fx.otherId = other.id
+  for (const [c, email, password] of [
+    ['trav', TRAVELLER, 'eclipse-demo'], ['booked', TRAVELLER2, 'eclipse-demo'], ['guide', GUIDE, 'eclipse-demo'],
+    ['other', other.email, other.password], ['org', ORGANISER, 'eclipse-demo'],
+  ] as Array<[Caller, string, string]>) {
+    fx.emails.set(c, email)
+    fx.passwords.set(c, password)
+    fx.cookies.set(c, c === 'org' ? org : await signIn(email, password))
+  }
+  fx.cookies.set('anon', '')
+
+  // The demo's Luxor trip and the booked traveller's confirmed booking on it (see the demo seed).
+  const trips = await api('/api/trips', { cookie: org })
+  const luxor = trips.body.data.find((t: { title: string }) => t.title === DEMO_TRIP_TITLE)
+  fx.luxorTrip = luxor.id
+  const trip = await db.selectFrom('trips').select(['workspace_id', 'primary_site_id']).where('id', '=', luxor.id).executeTakeFirstOrThrow()
+  fx.luxorWs = trip.workspace_id
+  fx.luxorSite = trip.primary_site_id
+  expect((await db.selectFrom('workspaces').select('name').where('id', '=', fx.luxorWs).executeTakeFirstOrThrow()).name).toBe(DEMO_WORKSPACE.name)
+  const own = await api('/api/bookings', { cookie: fx.cookies.get('booked') })
+  const confirmed = own.body.data.filter((b: { tripId: number; status: string }) => b.tripId === fx.luxorTrip && b.status === 'confirmed')
+  expect(confirmed).toHaveLength(1)
+  fx.luxorBooking = confirmed[0].id
+  // The traveller without a booking really has none, anywhere.
+  expect((await api('/api/bookings', { cookie: fx.cookies.get('trav') })).body.data).toEqual([])
+
+  fx.ownTrip = await publishedTrip(org, { title: 'Roles matrix: the booked traveller\'s hold' })
+  fx.openTrip = await publishedTrip(org, { title: 'Roles matrix: open for holds' })
+  fx.fullTrip = await publishedTrip(org, { title: 'Roles matrix: full', seats: 1 })
+  const filler = await invite('filler')
+  const fill = await api(`/api/trips/${fx.fullTrip}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(filler.email, filler.password) })
+  expect(fill.status).toBe(201)
+
+  const spare = await api(`/api/workspaces/${fx.luxorWs}/sites`, { method: 'POST', body: { name: 'Roles matrix spare site', lat: 26, lon: 32.5 }, cookie: org })
+  expect(spare.status).toBe(201)
+  fx.spareSite = spare.body.id
+
+  // A message that failed to send, for the retry row (the fake mail server delivers everything).
+  const msg = await db.selectFrom('outbox').select('id').orderBy('id').executeTakeFirstOrThrow()
+  await db.updateTable('outbox').set({ status: 'failed', last_error: 'roles matrix: marked failed' }).where('id', '=', msg.id).execute()
+  fx.outboxId = msg.id
+}, 120_000)
+
+async function call(row: Row, caller: Caller, cookie: string) {
+  const path = await row.path(caller)
+  const body = row.body?.(caller)
+  return { path, r: await api(path, { method: row.method, cookie: cookie || undefined, ...(body === undefined ? {} : { body }) }) }
+}
+
+function check(row: Row, caller: Caller, path: string, status: number, body: unknown, seen: string[]) {
+  const want = row.want[CALLERS.indexOf(caller)]
+  if (status >= 500) seen.push(`${caller}: ${row.method} ${path} answered ${status} ${JSON.stringify(body).slice(0, 200)}`)
+  else if (status !== want) seen.push(`${caller}: ${row.method} ${path} got ${status}, want ${want} ${JSON.stringify(body).slice(0, 200)}`)
+}
 
 describe('the role matrix', () => {
-  it('lists every route under server/api', () => {
+  it('has exactly one row for every route file under server/api, and no row for a file that is not there', () => {
     const root = resolve(__dirname, '../../server/api')
-    const files = routeFiles(root).map((f) => relative(root, f))
-    const norm = (method: string, path: string) => `${method} ${path.split('?')[0]!.replace(/^\/api\//, '').replace(/\/\d+(?=\/|$)/g, '/[id]').replace(/2027-08-02/, '[id]')}`
-    const listed = new Set(ROUTES.map(([m, p]) => norm(m, p)))
-    const fromFiles = files.map((f) => {
-      const m = /^(.*?)(?:\/index)?\.(get|post|put|patch|delete)\.ts$/.exec(f)!
-      return `${m[2]!.toUpperCase()} ${m[1]!.replace(/\[siteId\]/, '[id]')}`
-    })
-    expect(fromFiles.filter((r) => !listed.has(r))).toEqual([])
+    const files = routeFiles(root).map((f) => relative(root, f).replace(/\\/g, '/').replace(/\.ts$/, '')).sort()
+    const rows = [...ROWS, ...SESSION_ENDING].map((r) => r.file)
+    expect(new Set(rows).size, 'a route listed twice').toBe(rows.length)
+    expect(files.filter((f) => !rows.includes(f)), 'route files with no row in the matrix').toEqual([])
+    expect(rows.filter((f) => !files.includes(f)), 'rows for route files that do not exist').toEqual([])
+    // The row's method is the one in its file name.
+    for (const r of [...ROWS, ...SESSION_ENDING]) expect(r.file.endsWith(`.${r.method.toLowerCase()}`), r.file).toBe(true)
   })
 
-  // Session-ending routes are called last, with a fresh sign-in, so they do not end the callers' sessions.
-  const SESSION_ENDING = new Set(['/api/auth/logout', '/api/auth/sign-out-everywhere'])
-  const UPLOADS = new Set(['/api/climatology', '/api/workspaces/1/sites/import', '/api/workspaces/1/terrain'])
-  const ordered = [...ROUTES.filter(([, p]) => !SESSION_ENDING.has(p)), ...ROUTES.filter(([, p]) => SESSION_ENDING.has(p))]
-  it.each(ordered)('%s %s (%s)', async (method, path, access) => {
+  it.each(ROWS.map((r) => [`${r.method} ${r.file}`, r] as const))('%s', async (_, row) => {
     const seen: string[] = []
     for (const caller of CALLERS) {
-      let cookie = cookies.get(caller)!
-      if (SESSION_ENDING.has(path) && caller !== 'signed out') {
-        const email = { traveller: TRAVELLER, 'guide (assigned)': GUIDE, organiser: ORGANISER }[caller as 'traveller']
-        if (!email) continue
-        cookie = await signIn(email)
-      }
-      // Upload routes take multipart only: they are called without a body, so the role decides.
-      const bodyless = method === 'GET' || method === 'DELETE' || UPLOADS.has(path)
-      const r = await api(path, { method, cookie: cookie || undefined, ...(bodyless ? {} : { body: {} }) })
-      const want = expected(access, caller)
-      const ok = want === 'allowed' ? ![401, 403].includes(r.status) : r.status === want
-      if (!ok) seen.push(`${caller}: got ${r.status}, want ${want}`)
+      const { path, r } = await call(row, caller, fx.cookies.get(caller)!)
+      check(row, caller, path, r.status, r.body, seen)
     }
     expect(seen).toEqual([])
-  })
+  }, 60_000)
+
+  it.each(SESSION_ENDING.map((r) => [`${r.method} ${r.file}`, r] as const))('%s (each caller signed in afresh; run last)', async (_, row) => {
+    const seen: string[] = []
+    for (const caller of CALLERS) {
+      const cookie = caller === 'anon' ? '' : await signIn(fx.emails.get(caller)!, fx.passwords.get(caller))
+      const { path, r } = await call(row, caller, cookie)
+      check(row, caller, path, r.status, r.body, seen)
+      // The session really ended: the same cookie is now refused.
+      if (caller !== 'anon' && r.status === 200) {
+        const me = await fetch(url('/api/me'), { headers: { cookie } })
+        if (me.status !== 401) seen.push(`${caller}: the session still works after ${row.file} (${me.status})`)
+      }
+    }
+    expect(seen).toEqual([])
+  }, 60_000)
 })
