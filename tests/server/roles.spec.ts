@@ -1,7 +1,7 @@
 import { readdirSync, statSync } from 'node:fs'
 import { join, relative, resolve } from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, useApp } from './app'
 
 await useApp()
 
@@ -112,11 +112,11 @@ function routeFiles(dir: string): string[] {
 const cookies = new Map<Caller, string>()
 beforeAll(async () => {
   const org = await signIn(ORGANISER)
-  const inv = await api('/api/users', { method: 'POST', body: { name: 'Roles Other Guide', email: 'roles-other-guide@umbrafield.test', role: 'guide' }, cookie: org })
+  await inviteAndChoosePassword(org, { name: 'Roles Other Guide', email: 'roles-other-guide@umbrafield.test', role: 'guide' }, 'roles-other-guide-pw')
   cookies.set('signed out', '')
   cookies.set('traveller', await signIn(TRAVELLER))
   cookies.set('guide (assigned)', await signIn(GUIDE))
-  cookies.set('guide (not assigned)', await signIn('roles-other-guide@umbrafield.test', inv.body.temporaryPassword))
+  cookies.set('guide (not assigned)', await signIn('roles-other-guide@umbrafield.test', 'roles-other-guide-pw'))
   cookies.set('organiser', org)
 })
 
