@@ -139,14 +139,23 @@ export interface CaughtMail { id: string; subject: string; text: string; html: s
  * the app's mail worker; throws when none comes). `ignore`: ids of mail already read.
  */
 export async function caughtMail(to: string, subject: RegExp, opts: { ms?: number; ignore?: string[] } = {}): Promise<CaughtMail> {
-  const end = Date.now() + (opts.ms ?? 20_000)
+  const end = Date.now() + (opts.ms ?? 45_000)
   for (;;) {
-    const list = (await (await fetch(`${MAIL_CATCHER}/api/email`)).json()) as CaughtMail[]
+    const list = await caughtList()
     const hit = list.filter((m) => m.to.some((t) => t.address === to) && subject.test(m.subject) && !opts.ignore?.includes(m.id)).at(-1)
     if (hit) return hit
     if (Date.now() > end) throw new Error(`no mail "${subject}" to ${to} reached the mail catcher`)
     await new Promise((r) => setTimeout(r, 200))
   }
+}
+
+/** The catcher's list, fetched at most every 250 ms however many callers wait on it at once. */
+let lastList: { at: number; list: Promise<CaughtMail[]> } | null = null
+function caughtList(): Promise<CaughtMail[]> {
+  if (!lastList || Date.now() - lastList.at > 250) {
+    lastList = { at: Date.now(), list: fetch(`${MAIL_CATCHER}/api/email`).then((r) => r.json() as Promise<CaughtMail[]>) }
+  }
+  return lastList.list
 }
 
 /** The token of the first `/path?token=` link in a mail's text. */

@@ -152,7 +152,7 @@ describe('booking and paying', () => {
     const other = cookies[results.findIndex((r) => r.status === 409)]!
     expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: other })).status).toBe(409)
     expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: waiting })).status).toBe(201)
-  })
+  }, 150_000) // forty invitations go out by e-mail, one SMTP delivery after another
 
   it('a crash between payment and webhook loses nothing: reconciliation completes it, late webhooks do not double-count', async () => {
     const trav = await signIn(TRAVELLER)
