@@ -260,6 +260,24 @@ export interface OutboxTable {
   created_at: Created
   sending_since: string | null
   sent_at: string | null
+  /**
+   * The one-time token of a link in this message, sealed (server/services/sealed.ts) under
+   * "outbox:<message_id>"; the bodies hold a placeholder instead. Cleared once sent or given up.
+   */
+  sealed_secret: ColumnType<string | null, string | null | undefined, string | null>
+}
+
+/** A one-time link that sets a password: a reset (one hour) or an invitation (seven days). */
+export interface AccountTokensTable {
+  /** SHA-256 (hex) of the token; the token itself is never stored. */
+  token_hash: string
+  user_id: number
+  purpose: 'reset' | 'invite'
+  /** UTC ISO 8601. */
+  expires_at: string
+  /** Spent or superseded (UTC ISO); null while the link still works. */
+  used_at: ColumnType<string | null, string | null | undefined, string | null>
+  created_at: Created
 }
 
 /** A housekeeping job's lease: the holder runs the job until expires_at (UTC ISO). */
@@ -300,6 +318,7 @@ export interface Database {
   stripe_customers: { user_id: number; customer_id: string }
   waitlist: WaitlistTable
   outbox: OutboxTable
+  account_tokens: AccountTokensTable
   email_confirmations: { token_hash: string; user_id: number; expires_at: string; used_at: ColumnType<string | null, string | null | undefined, string | null> }
   reconciliation_items: {
     id: Generated<number>; run_at: string; booking_id: number | null; payment_id: number | null

@@ -3,8 +3,8 @@ import { sql, type Kysely, type Transaction } from 'kysely'
 import { isPostgres } from '../database/dialect'
 import type { Database, Role, User } from '../database/schema'
 import { audit } from './audit'
-import { confirmEmailMail } from './mailTemplates'
-import { enqueueMail } from './outbox'
+import { confirmEmailMail, invitationMail, passwordResetMail, passwordResetNoAccountMail } from './mailTemplates'
+import { enqueueMail, SECRET_TOKEN } from './outbox'
 import { nowIso, nowMs } from './clock'
 
 /**
@@ -68,10 +68,11 @@ export class EmailTakenError extends Error {}
 
 /**
  * Creates an account. A self-registered one starts unconfirmed and gets a confirmation e-mail in the
- * same transaction; one an organiser invites counts as confirmed (the organiser vouches for the address).
+ * same transaction; one an organiser invites counts as confirmed (the organiser vouches for the
+ * address) and gets its invitation link, with which the invitee chooses a first password.
  */
 export async function createUser(db: Kysely<Database>, input: { name: string; email: string; passwordHash: string; role: Role },
-  actorId: number | null, ip: string | null, action: 'sign_up' | 'invite', appUrl?: string): Promise<User> {
+  actorId: number | null, ip: string | null, action: 'sign_up' | 'invite', appUrl?: string, inviter?: string): Promise<User> {
   return db.transaction().execute(async (trx) => {
     const exists = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst()
     if (exists) throw new EmailTakenError('That e-mail address already has an account')
@@ -81,6 +82,7 @@ export async function createUser(db: Kysely<Database>, input: { name: string; em
     }).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action, actorUserId: actorId ?? user.id, subjectUserId: user.id, ip, detail: { role: input.role } })
     if (action === 'sign_up' && appUrl) await sendEmailConfirmation(trx, user, appUrl)
+    if (action === 'invite' && appUrl) await sendInvitation(trx, user, appUrl, inviter ?? 'Your organiser')
     return user
   })
 }
@@ -92,7 +94,7 @@ const tokenHash = (token: string) => createHash('sha256').update(token).digest('
 export async function sendEmailConfirmation(trx: Transaction<Database> | Kysely<Database>, user: Pick<User, 'id' | 'name' | 'email'>, appUrl: string) {
   const token = randomBytes(24).toString('base64url')
   await trx.insertInto('email_confirmations').values({ token_hash: tokenHash(token), user_id: user.id, expires_at: new Date(nowMs() + CONFIRMATION_HOURS * 3600_000).toISOString() }).execute()
-  await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${token}`, hours: CONFIRMATION_HOURS }) })
+  await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, secret: token, ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${SECRET_TOKEN}`, hours: CONFIRMATION_HOURS }) })
 }
 
 export class InvalidTokenError extends Error {}
@@ -110,15 +112,29 @@ export async function confirmEmail(db: Kysely<Database>, token: string): Promise
   })
 }
 
+/** An advisory-lock key for role changes on PostgreSQL (any constant; "roles" in ASCII). */
+const ROLE_CHANGE_LOCK = 0x726f6c6573
+
+export class LastOrganiserError extends Error {}
+export class NotOrganiserError extends Error {}
+
 export async function changeRole(db: Kysely<Database>, actor: User, userId: number, role: Role, ip: string): Promise<User | null> {
   return db.transaction().execute(async (trx) => {
+    // Count-then-change must not interleave, or two organisers demoting each other at once both
+    // count two organisers and leave none. SQLite: BEGIN IMMEDIATE already serialises writers.
+    // PostgreSQL (several instances, READ COMMITTED): one transaction-scoped advisory lock for every
+    // role change, taken before anything is read.
+    if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(${ROLE_CHANGE_LOCK})`.execute(trx)
+    // The actor was checked before the lock; a demotion that committed meanwhile counts.
+    const acting = await trx.selectFrom('users').select('role').where('id', '=', actor.id).executeTakeFirst()
+    if (acting?.role !== 'organiser') throw new NotOrganiserError('Only an organiser can change roles')
     const target = await trx.selectFrom('users').selectAll().where('id', '=', userId).executeTakeFirst()
     if (!target) return null
     if (target.role === role) return target
     if (target.role === 'organiser' && role !== 'organiser') {
       const [{ n }] = await trx.selectFrom('users').select((eb) => eb.fn.countAll<number>().as('n'))
         .where('role', '=', 'organiser').execute() as [{ n: number }]
-      if (Number(n) <= 1) throw new Error('The last organiser cannot be demoted')
+      if (Number(n) <= 1) throw new LastOrganiserError('The last organiser cannot be demoted')
     }
     // A role change ends the user's sessions: the next request signs in afresh under the new role.
     const updated = await trx.updateTable('users').set((eb) => ({ role, session_version: eb('session_version', '+', 1) })).where('id', '=', userId).returningAll().executeTakeFirstOrThrow()
@@ -127,7 +143,93 @@ export async function changeRole(db: Kysely<Database>, actor: User, userId: numb
   })
 }
 
-/** A readable one-time password for invited accounts (shown once to the organiser). */
-export function temporaryPassword(): string {
-  return randomBytes(9).toString('base64url')
+/**
+ * Links that set a password: a reset lasts an hour, an invitation seven days. Each works once and
+ * only the SHA-256 of its token is stored; a newer link for the same person ends the older ones.
+ */
+export const PASSWORD_LINK = { resetMinutes: 60, inviteDays: 7 }
+
+type Db = Transaction<Database> | Kysely<Database>
+
+/** Ends every unused password link of a user (a newer one replaces them, or one was just used). */
+async function endPasswordLinks(trx: Db, userId: number, now: string) {
+  await trx.updateTable('account_tokens').set({ used_at: now }).where('user_id', '=', userId).where('used_at', 'is', null).execute()
+}
+
+async function issuePasswordLink(trx: Db, userId: number, purpose: 'reset' | 'invite'): Promise<string> {
+  const now = nowMs()
+  const token = randomBytes(24).toString('base64url')
+  const lifeMs = purpose === 'reset' ? PASSWORD_LINK.resetMinutes * 60_000 : PASSWORD_LINK.inviteDays * 24 * 3600_000
+  await endPasswordLinks(trx, userId, new Date(now).toISOString())
+  await trx.insertInto('account_tokens').values({ token_hash: tokenHash(token), user_id: userId, purpose, expires_at: new Date(now + lifeMs).toISOString(), created_at: new Date(now).toISOString() }).execute()
+  return token
+}
+
+const passwordUrl = (appUrl: string, purpose: 'reset' | 'invite') => `${appUrl}/reset-password?token=${SECRET_TOKEN}${purpose === 'invite' ? '&invite=1' : ''}`
+
+async function sendInvitation(trx: Db, user: Pick<User, 'id' | 'name' | 'email' | 'role'>, appUrl: string, inviter: string) {
+  const token = await issuePasswordLink(trx, user.id, 'invite')
+  await enqueueMail(trx, { kind: 'invitation', to: { email: user.email, name: user.name }, secret: token,
+    ...invitationMail({ name: user.name, inviter, role: user.role, url: passwordUrl(appUrl, 'invite'), days: PASSWORD_LINK.inviteDays }) })
+}
+
+/**
+ * A password no one knows, for an invited account until its owner chooses one: the hash of 32
+ * random bytes that are thrown away. It is an ordinary hash, so signing in against it takes as long
+ * as against any other and tells nothing.
+ */
+export async function unusablePasswordHash(hash: (plain: string) => Promise<string>): Promise<string> {
+  return hash(randomBytes(32).toString('base64url'))
+}
+
+/**
+ * "Forgot your password": the same work whether or not the address has an account, so neither the
+ * answer nor its timing tells who is registered. A known address gets a reset link (ending its
+ * older unused links); an unknown one is told that no account uses it.
+ */
+export async function requestPasswordReset(db: Kysely<Database>, email: string, appUrl: string, ip: string): Promise<void> {
+  await db.transaction().execute(async (trx) => {
+    const user = await trx.selectFrom('users').select(['id', 'name', 'email']).where('email', '=', email).executeTakeFirst()
+    await audit(trx, { action: 'password_reset_requested', subjectUserId: user?.id ?? null, ip, detail: { email } })
+    if (user) {
+      const token = await issuePasswordLink(trx, user.id, 'reset')
+      await enqueueMail(trx, { kind: 'password-reset', to: { email: user.email, name: user.name }, secret: token,
+        ...passwordResetMail({ name: user.name, url: passwordUrl(appUrl, 'reset'), minutes: PASSWORD_LINK.resetMinutes }) })
+    } else {
+      // The same statements as for a known address (the links of "no one" end: none), then the mail.
+      await endPasswordLinks(trx, -1, nowIso())
+      await enqueueMail(trx, { kind: 'password-reset', to: { email }, ...passwordResetNoAccountMail({ signUpUrl: `${appUrl}/register` }) })
+    }
+  })
+}
+
+/** Whether a password link still works (a cheap look before the costly password hash). */
+export async function passwordLinkUsable(db: Kysely<Database>, token: string): Promise<boolean> {
+  const row = await db.selectFrom('account_tokens').select(['used_at', 'expires_at']).where('token_hash', '=', tokenHash(token)).executeTakeFirst()
+  return !!row && !row.used_at && row.expires_at > nowIso()
+}
+
+/**
+ * Sets the password behind a reset or invitation link: once, before it expires. Every session of
+ * the user ends (the session version rises), every other unused link of theirs ends, and the
+ * address counts as confirmed (the link reached it).
+ */
+export async function resetPassword(db: Kysely<Database>, token: string, passwordHash: string, ip: string): Promise<User> {
+  return db.transaction().execute(async (trx) => {
+    const now = nowIso()
+    // Spend the link first, conditionally: of two uses at once, only one updates a row.
+    const spent = await trx.updateTable('account_tokens').set({ used_at: now })
+      .where('token_hash', '=', tokenHash(token)).where('used_at', 'is', null).where('expires_at', '>', now)
+      .returning(['user_id', 'purpose']).executeTakeFirst()
+    if (!spent) throw new InvalidTokenError('This link is not valid any more: ask for a new one')
+    await endPasswordLinks(trx, spent.user_id, now)
+    const user = await trx.updateTable('users').set((eb) => ({
+      password_hash: passwordHash, session_version: eb('session_version', '+', 1),
+      email_confirmed_at: eb.fn.coalesce('email_confirmed_at', eb.val(now)),
+    })).where('id', '=', spent.user_id).returningAll().executeTakeFirstOrThrow()
+    // A new password starts afresh: earlier failed sign-ins no longer hold the account back.
+    await trx.deleteFrom('sign_in_failures').where('email', '=', user.email).execute()
+    await audit(trx, { action: spent.purpose === 'invite' ? 'invitation_accepted' : 'password_reset', actorUserId: user.id, subjectUserId: user.id, ip })
+    return user
+  })
 }

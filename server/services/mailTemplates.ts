@@ -117,3 +117,24 @@ export function accountExistsMail(d: { name: string; signInUrl: string }): Mail 
       + p('If it was not you, nothing has changed and you need do nothing.'),
     `Hello ${d.name},\n\nSomeone just tried to create an Umbrafield account with this e-mail address, which already has one. If it was you, sign in instead:\n${d.signInUrl}\n\nIf it was not you, nothing has changed and you need do nothing.`)
 }
+
+export function passwordResetMail(d: { name: string; url: string; minutes: number }): Mail {
+  return frame('Choose a new password',
+    p(`Hello ${esc(d.name)},`) + p('Someone, hopefully you, asked to set a new password for your Umbrafield account. Follow this link to choose one:') + button(d.url, 'Choose a new password')
+      + p(`The link works once, for ${d.minutes} minutes; a newer request replaces it. Choosing a new password signs you out on every device. If you did not ask, ignore this message: your password stays as it is.`),
+    `Hello ${d.name},\n\nSomeone, hopefully you, asked to set a new password for your Umbrafield account. Follow this link to choose one:\n${d.url}\n\nThe link works once, for ${d.minutes} minutes; a newer request replaces it. Choosing a new password signs you out on every device. If you did not ask, ignore this message: your password stays as it is.`)
+}
+
+export function passwordResetNoAccountMail(d: { signUpUrl: string }): Mail {
+  return frame('No Umbrafield account uses this address',
+    p('Someone asked to set a new Umbrafield password for this e-mail address, but no account uses it. If it was you, you may have signed up with another address, or you can create an account:') + button(d.signUpUrl, 'Create an account')
+      + p('If it was not you, ignore this message: nothing has changed.'),
+    `Someone asked to set a new Umbrafield password for this e-mail address, but no account uses it. If it was you, you may have signed up with another address, or you can create an account:\n${d.signUpUrl}\n\nIf it was not you, ignore this message: nothing has changed.`)
+}
+
+export function invitationMail(d: { name: string; inviter: string; role: string; url: string; days: number }): Mail {
+  return frame('You are invited to Umbrafield',
+    p(`Hello ${esc(d.name)},`) + p(`${esc(d.inviter)} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:`) + button(d.url, 'Choose your password')
+      + p(`The link works once, for ${d.days} days. If you were not expecting this, ignore this message.`),
+    `Hello ${d.name},\n\n${d.inviter} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:\n${d.url}\n\nThe link works once, for ${d.days} days. If you were not expecting this, ignore this message.`)
+}

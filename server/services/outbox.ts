@@ -5,6 +5,7 @@ import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
 import type { Mail } from './mailTemplates'
 import { nowDate, nowIso, nowMs } from './clock'
+import { seal, unseal } from './sealed'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -16,12 +17,31 @@ export interface OutgoingMail extends Mail {
   tripId?: number | null
   /** Scheduled mail: at most one message per key. */
   dedupeKey?: string
+  /**
+   * A one-time token (a confirmation, reset or invitation link). The bodies carry SECRET_TOKEN where
+   * it goes; the token itself is kept sealed in the row and put in only when the message is sent.
+   */
+  secret?: string
 }
+
+/** Where a message's one-time token goes in its bodies (a link is written `${appUrl}/path?token=${SECRET_TOKEN}`). */
+export const SECRET_TOKEN = '{{secret_token}}'
+
+/** The sealing context of a message's token: bound to its Message-ID, so it opens in no other row. */
+export const secretContext = (messageId: string) => `outbox:${messageId}`
+
+export class SecretInBodyError extends Error {}
 
 /** Writes a message to the outbox, inside the caller's transaction: it goes out only if the event commits. */
 export async function enqueueMail(db: Db, m: OutgoingMail): Promise<void> {
+  const messageId = `<${randomUUID()}@umbrafield>`
+  if (m.secret !== undefined) {
+    // Tokens never rest in clear text: the bodies must hold the placeholder, never the token.
+    if (m.secret.length < 16 || m.html.includes(m.secret) || m.text.includes(m.secret) || m.subject.includes(m.secret)) throw new SecretInBodyError('A one-time token must not be written into a message body')
+    if (!m.text.includes(SECRET_TOKEN)) throw new SecretInBodyError('A message with a one-time token must say where it goes')
+  }
   await db.insertInto('outbox').values({
-    message_id: `<${randomUUID()}@umbrafield>`, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
+    message_id: messageId, sealed_secret: m.secret !== undefined ? seal(m.secret, secretContext(messageId)) : null, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
     subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: nowIso(),
     last_error: null, booking_id: m.bookingId ?? null, trip_id: m.tripId ?? null, sending_since: null, sent_at: null,
   }).onConflict((oc) => oc.column('dedupe_key').doNothing()).execute()
@@ -77,12 +97,23 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
   }
   let sent = 0, failed = 0
   for (const m of due) {
+    let bodies: { html: string; text: string }
+    try {
+      bodies = withSecret(m)
+    } catch (e) {
+      // The link cannot be put back (its token was cleared, or its key is gone): sending the
+      // placeholder would help nobody. The person asks for a new link.
+      await db.updateTable('outbox').set({ status: 'failed', last_error: (e as Error).message, sending_since: null, sealed_secret: null }).where('id', '=', m.id).execute()
+      failed++
+      continue
+    }
     try {
       await transport.sendMail({
         messageId: m.message_id, from, to: m.to_name ? { name: m.to_name, address: m.to_email } : m.to_email,
-        subject: m.subject, html: m.html, text: m.text, attachments: JSON.parse(m.attachments),
+        subject: m.subject, html: bodies.html, text: bodies.text, attachments: JSON.parse(m.attachments),
       })
-      await db.updateTable('outbox').set({ status: 'sent', sent_at: nowIso(), attempts: m.attempts + 1, last_error: null, sending_since: null }).where('id', '=', m.id).execute()
+      // Sent: the token is in the recipient's mailbox and nowhere here any more.
+      await db.updateTable('outbox').set({ status: 'sent', sent_at: nowIso(), attempts: m.attempts + 1, last_error: null, sending_since: null, sealed_secret: null }).where('id', '=', m.id).execute()
       sent++
     } catch (e) {
       const attempts = m.attempts + 1
@@ -91,6 +122,8 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
       await db.updateTable('outbox').set({
         status: give ? 'failed' : 'queued', attempts, last_error: (e as Error).message.slice(0, 500), sending_since: null,
         next_attempt_at: new Date(nowMs() + wait).toISOString(),
+        // Given up: the link is dropped with it (the person asks for a new one).
+        ...(give ? { sealed_secret: null } : {}),
       }).where('id', '=', m.id).execute()
       failed++
     }
@@ -98,10 +131,27 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
   return { sent, failed }
 }
 
-export async function retryMessage(db: Kysely<Database>, id: number): Promise<boolean> {
+/** The bodies as sent: the sealed token opened and put where the placeholder stands. */
+function withSecret(m: { message_id: string; html: string; text: string; sealed_secret: string | null }): { html: string; text: string } {
+  const needs = m.text.includes(SECRET_TOKEN) || m.html.includes(SECRET_TOKEN)
+  if (!needs) return { html: m.html, text: m.text }
+  if (!m.sealed_secret) throw new Error('The one-time link in this message has been cleared: ask for a new one')
+  const token = unseal(m.sealed_secret, secretContext(m.message_id))
+  // Tokens are base64url: nothing in them needs escaping in HTML or in a URL.
+  return { html: m.html.split(SECRET_TOKEN).join(token), text: m.text.split(SECRET_TOKEN).join(token) }
+}
+
+/**
+ * Queues a failed message again. 'link_gone' when it carried a one-time link whose token was
+ * cleared on giving up: resending it would deliver a dead link, so the person asks for a new one.
+ */
+export async function retryMessage(db: Kysely<Database>, id: number): Promise<'ok' | 'not_failed' | 'link_gone'> {
+  const row = await db.selectFrom('outbox').select(['status', 'text', 'html', 'sealed_secret']).where('id', '=', id).executeTakeFirst()
+  if (!row || row.status !== 'failed') return 'not_failed'
+  if ((row.text.includes(SECRET_TOKEN) || row.html.includes(SECRET_TOKEN)) && !row.sealed_secret) return 'link_gone'
   const r = await db.updateTable('outbox').set({ status: 'queued', attempts: 0, next_attempt_at: nowIso(), last_error: null })
     .where('id', '=', id).where('status', '=', 'failed').executeTakeFirst()
-  return !!r.numUpdatedRows
+  return r.numUpdatedRows ? 'ok' : 'not_failed'
 }
 
 export async function listOutbox(db: Kysely<Database>, limit = 200) {

@@ -39,9 +39,16 @@ export async function requireUser(event: H3Event): Promise<User> {
   return user
 }
 
-/** Ends every session of a user (this one included) by raising the session version. */
-export async function endAllSessions(userId: number) {
-  await useDb().updateTable('users').set((eb) => ({ session_version: eb('session_version', '+', 1) })).where('id', '=', userId).execute()
+/**
+ * Ends every session of a user (this one included) by raising the session version, but only from
+ * the version the caller's cookie carries: a cookie that has already ended (an older version, or
+ * the user is gone) changes nothing, so it cannot end the sessions begun since. The check and the
+ * raise are one conditional update, so two sign-outs at once raise it once.
+ */
+export async function endAllSessions(userId: number, fromVersion: number): Promise<boolean> {
+  const r = await useDb().updateTable('users').set((eb) => ({ session_version: eb('session_version', '+', 1) }))
+    .where('id', '=', userId).where('session_version', '=', fromVersion).executeTakeFirst()
+  return !!r.numUpdatedRows
 }
 
 /** requireUser, then 403 unless the user's current role is one of `roles`. */

@@ -12,10 +12,13 @@ export const LoginBody = z.object({
 })
 export type LoginInput = z.infer<typeof LoginBody>
 
+/** The one strength rule for a new password (sign-up, reset, invitation). */
+const newPassword = z.string({ error: 'Use at least 10 characters' }).min(10, 'Use at least 10 characters').max(200)
+
 export const RegisterBody = z.object({
   name: z.string({ error: 'Enter your name' }).trim().min(1, 'Enter your name').max(120),
   email,
-  password: z.string({ error: 'Use at least 10 characters' }).min(10, 'Use at least 10 characters').max(200),
+  password: newPassword,
 })
 export type RegisterInput = z.infer<typeof RegisterBody>
 
@@ -36,6 +39,21 @@ export const AccountPatch = z.object({
 export const IdParams = z.object({ id: z.coerce.number().int().positive() })
 
 export const VerifyEmailBody = z.object({ token: z.string({ error: 'The link has no token' }).min(10, 'The link has no token').max(200) })
+
+/** "Forgot your password": the address to send a link to. */
+export const PasswordResetBody = z.object({ email })
+
+/** A reset or invitation link's token and the new password (the sign-up rule). */
+export const PasswordResetConfirmBody = z.object({
+  token: z.string({ error: 'The link has no token' }).min(10, 'The link has no token').max(200),
+  password: RegisterBody.shape.password,
+})
+
+/** The reset page's form: the new password twice (the token comes from the link). */
+export const NewPasswordForm = z.object({
+  password: RegisterBody.shape.password,
+  repeat: z.string({ error: 'Type the same password again' }).min(1, 'Type the same password again'),
+}).refine((v) => v.password === v.repeat, { message: 'The two passwords differ', path: ['repeat'] })
 
 /** What a signed-in user may see of themselves and others. */
 export interface PublicUser {

@@ -61,6 +61,8 @@ export async function useApp(env: Record<string, string> = {}) {
       UMBRAFIELD_HOLD_LIMIT: '1000',
       UMBRAFIELD_SIGNUP_LIMIT: '1000',
       UMBRAFIELD_REFUND_RETRY_MS: '500',
+      // Invitations and links arrive by e-mail: the worker looks at the outbox often.
+      UMBRAFIELD_MAIL_POLL_MS: '400',
       // Tests move the app's clock (POST /_test/clock) rather than sleep until holds and offers lapse.
       UMBRAFIELD_TEST_CLOCK: '1',
       ...fakeEnv,
@@ -125,4 +127,53 @@ export async function until<T>(fn: () => Promise<T>, ok: (v: T) => boolean, ms =
     if (ok(v) || Date.now() > end) return v
     await new Promise((r) => setTimeout(r, 150))
   }
+}
+
+/** The mail catcher's web side (maildev), where the app under test delivers its mail. */
+export const MAIL_CATCHER = `http://127.0.0.1:${TEST_FAKE_PORTS.MAIL_FAKE_WEB_PORT}`
+
+export interface CaughtMail { id: string; subject: string; text: string; html: string; to: Array<{ address: string }>; date: string }
+
+/**
+ * The newest mail to `to` whose subject matches, read from the mail catcher's REST API (waits for
+ * the app's mail worker; throws when none comes). `ignore`: ids of mail already read.
+ */
+export async function caughtMail(to: string, subject: RegExp, opts: { ms?: number; ignore?: string[] } = {}): Promise<CaughtMail> {
+  const end = Date.now() + (opts.ms ?? 45_000)
+  for (;;) {
+    const list = await caughtList()
+    const hit = list.filter((m) => m.to.some((t) => t.address === to) && subject.test(m.subject) && !opts.ignore?.includes(m.id)).at(-1)
+    if (hit) return hit
+    if (Date.now() > end) throw new Error(`no mail "${subject}" to ${to} reached the mail catcher`)
+    await new Promise((r) => setTimeout(r, 200))
+  }
+}
+
+/** The catcher's list, fetched at most every 250 ms however many callers wait on it at once. */
+let lastList: { at: number; list: Promise<CaughtMail[]> } | null = null
+function caughtList(): Promise<CaughtMail[]> {
+  if (!lastList || Date.now() - lastList.at > 250) {
+    lastList = { at: Date.now(), list: fetch(`${MAIL_CATCHER}/api/email`).then((r) => r.json() as Promise<CaughtMail[]>) }
+  }
+  return lastList.list
+}
+
+/** The token of the first `/path?token=` link in a mail's text. */
+export function linkToken(mail: { text: string }, path = '/reset-password'): string {
+  const m = new RegExp(`${path.replace(/[/]/g, '\\/')}\\?token=([A-Za-z0-9_-]+)`).exec(mail.text)
+  if (!m) throw new Error(`no ${path} link in the mail`)
+  return m[1]!
+}
+
+/**
+ * An organiser invites someone, and the invitee chooses `password` through the link in the
+ * invitation e-mail (as a person would). Returns the invite's answer.
+ */
+export async function inviteAndChoosePassword(orgCookie: string, body: { name: string; email: string; role: 'guide' | 'organiser' }, password = 'invited-password-0'): Promise<ApiResult> {
+  const inv = await api('/api/users', { method: 'POST', body, cookie: orgCookie })
+  if (inv.status !== 201) throw new Error(`invite failed for ${body.email}: ${inv.status}`)
+  const mail = await caughtMail(body.email, /invited/)
+  const set = await api('/api/auth/password-reset/confirm', { method: 'POST', body: { token: linkToken(mail), password } })
+  if (set.status !== 200) throw new Error(`choosing a password failed for ${body.email}: ${set.status} ${JSON.stringify(set.body)}`)
+  return inv
 }

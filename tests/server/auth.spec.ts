@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
 
 await useApp()
 
@@ -118,11 +118,11 @@ describe('role boundaries', () => {
     expect((await api('/api/users', { cookie: await signIn(TRAVELLER2) })).status).toBe(403)
   })
 
-  it('an organiser invites a guide, who can sign in with the one-time password', async () => {
+  it('an organiser invites a guide, who chooses a password through the e-mailed link and signs in with it', async () => {
     const org = await signIn(ORGANISER)
-    const r = await api('/api/users', { method: 'POST', body: { name: 'Invited Guide', email: 'invited@umbrafield.test', role: 'guide' }, cookie: org })
+    const r = await inviteAndChoosePassword(org, { name: 'Invited Guide', email: 'invited@umbrafield.test', role: 'guide' }, 'invited-guide-pw')
     expect(r.status).toBe(201)
-    const cookie = await signIn('invited@umbrafield.test', r.body.temporaryPassword)
+    const cookie = await signIn('invited@umbrafield.test', 'invited-guide-pw')
     expect((await api('/api/me', { cookie })).body.role).toBe('guide')
   })
 

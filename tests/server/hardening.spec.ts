@@ -1,7 +1,7 @@
 import { request } from 'node:http'
 import { describe, expect, it } from 'vitest'
 import { url } from '@nuxt/test-utils/e2e'
-import { api, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
 
 // This suite's app trusts 127.0.0.1 as its proxy, so X-Forwarded-Proto can be tried; the public
 // path route allows 3 requests a minute per address here.
@@ -75,10 +75,10 @@ describe('sessions that end', () => {
 
   it('a password change ends the other sessions; "sign out everywhere" ends them all', async () => {
     const org = await signIn(ORGANISER)
-    const inv = await api('/api/users', { method: 'POST', body: { name: 'Two Devices', email: 'two-devices@umbrafield.test', role: 'guide' }, cookie: org })
-    const phone = await signIn('two-devices@umbrafield.test', inv.body.temporaryPassword)
-    const laptop = await signIn('two-devices@umbrafield.test', inv.body.temporaryPassword)
-    const changed = await api('/api/me', { method: 'PATCH', body: { currentPassword: inv.body.temporaryPassword, newPassword: 'a-new-long-password' }, cookie: laptop })
+    await inviteAndChoosePassword(org, { name: 'Two Devices', email: 'two-devices@umbrafield.test', role: 'guide' }, 'two-devices-first')
+    const phone = await signIn('two-devices@umbrafield.test', 'two-devices-first')
+    const laptop = await signIn('two-devices@umbrafield.test', 'two-devices-first')
+    const changed = await api('/api/me', { method: 'PATCH', body: { currentPassword: 'two-devices-first', newPassword: 'a-new-long-password' }, cookie: laptop })
     expect(changed.status).toBe(200)
     const renewed = changed.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
     expect((await api('/api/me', { cookie: phone })).status).toBe(401)
@@ -91,8 +91,8 @@ describe('sessions that end', () => {
 
   it('a role change ends the sessions of the person changed', async () => {
     const org = await signIn(ORGANISER)
-    const inv = await api('/api/users', { method: 'POST', body: { name: 'Soon Organiser', email: 'soon-organiser@umbrafield.test', role: 'guide' }, cookie: org })
-    const their = await signIn('soon-organiser@umbrafield.test', inv.body.temporaryPassword)
+    const inv = await inviteAndChoosePassword(org, { name: 'Soon Organiser', email: 'soon-organiser@umbrafield.test', role: 'guide' }, 'soon-organiser-pw')
+    const their = await signIn('soon-organiser@umbrafield.test', 'soon-organiser-pw')
     expect((await api(`/api/users/${inv.body.user.id}`, { method: 'PATCH', body: { role: 'organiser' }, cookie: org })).status).toBe(200)
     expect((await api('/api/me', { cookie: their })).status).toBe(401)
     expect((await api('/api/me', { cookie: org })).status).toBe(200)
@@ -102,8 +102,8 @@ describe('sessions that end', () => {
 describe('safe exports', () => {
   it('a spreadsheet formula in a traveller\'s name is escaped in the bookings CSV', async () => {
     const org = await signIn(ORGANISER)
-    const inv = await api('/api/users', { method: 'POST', body: { name: '=HYPERLINK("http://evil.example","x")', email: 'formula@umbrafield.test', role: 'guide' }, cookie: org })
-    const cookie = await signIn('formula@umbrafield.test', inv.body.temporaryPassword)
+    await inviteAndChoosePassword(org, { name: '=HYPERLINK("http://evil.example","x")', email: 'formula@umbrafield.test', role: 'guide' }, 'formula-pw-123')
+    const cookie = await signIn('formula@umbrafield.test', 'formula-pw-123')
     const trips = await api('/api/trips')
     const luxor = trips.body.data.find((t: { title: string }) => t.title.startsWith('Luxor'))
     expect((await api(`/api/trips/${luxor.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie })).status).toBe(201)
@@ -126,8 +126,8 @@ describe('throttles on costly and sensitive routes', () => {
 
   it('the current-password check backs off after five wrong guesses', async () => {
     const org = await signIn(ORGANISER)
-    const inv = await api('/api/users', { method: 'POST', body: { name: 'Guessed', email: 'guessed@umbrafield.test', role: 'guide' }, cookie: org })
-    const cookie = await signIn('guessed@umbrafield.test', inv.body.temporaryPassword)
+    await inviteAndChoosePassword(org, { name: 'Guessed', email: 'guessed@umbrafield.test', role: 'guide' }, 'guessed-pw-123')
+    const cookie = await signIn('guessed@umbrafield.test', 'guessed-pw-123')
     const statuses: number[] = []
     for (let i = 0; i < 6; i++) statuses.push((await api('/api/me', { method: 'PATCH', body: { currentPassword: `wrong-${i}`, newPassword: 'a-new-long-password' }, cookie })).status)
     expect(statuses).toEqual([400, 400, 400, 400, 400, 429])

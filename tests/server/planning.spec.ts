@@ -2,7 +2,7 @@ import { VectorTile } from '@mapbox/vector-tile'
 import Pbf from 'pbf'
 import { describe, expect, it } from 'vitest'
 import { url } from '@nuxt/test-utils/e2e'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, useApp } from './app'
 
 await useApp()
 
@@ -25,8 +25,8 @@ describe('planning workspaces and sites', () => {
 
   it('guides see only the workspaces of the trips they guide', async () => {
     const org = await signIn(ORGANISER)
-    const inv = await api('/api/users', { method: 'POST', body: { name: 'Unassigned Guide', email: 'unassigned-guide@umbrafield.test', role: 'guide' }, cookie: org })
-    const other = await signIn('unassigned-guide@umbrafield.test', inv.body.temporaryPassword)
+    await inviteAndChoosePassword(org, { name: 'Unassigned Guide', email: 'unassigned-guide@umbrafield.test', role: 'guide' }, 'unassigned-guide-pw')
+    const other = await signIn('unassigned-guide@umbrafield.test', 'unassigned-guide-pw')
     expect((await api('/api/workspaces', { cookie: other })).body.data).toEqual([])
     for (const path of ['/api/workspaces/1', '/api/workspaces/1/sites', '/api/workspaces/1/export.csv', '/api/workspaces/1/cloud-layer']) {
       expect((await api(path, { cookie: other })).status).toBe(404)

@@ -4,7 +4,7 @@ import { url } from '@nuxt/test-utils/e2e'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
 import { DEMO_TRIP_TITLE, DEMO_WORKSPACE } from '../../server/database/seed/demo'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
 
 const { dbTarget } = await useApp()
 const db = openDatabase(dbTarget)
@@ -196,9 +196,10 @@ beforeAll(async () => {
   const org = await signIn(ORGANISER)
   const invite = async (name: string) => {
     const email = `roles-${name}-${unique()}@umbrafield.test`
-    const r = await api('/api/users', { method: 'POST', body: { name: `Roles ${name} (test)`, email, role: 'guide' }, cookie: org })
+    const password = `roles-${name}-password`
+    const r = await inviteAndChoosePassword(org, { name: `Roles ${name} (test)`, email, role: 'guide' }, password)
     expect(r.status).toBe(201)
-    return { email, password: r.body.temporaryPassword as string, id: r.body.user.id as number }
+    return { email, password, id: r.body.user.id as number }
   }
   const other = await invite('unassigned-guide')
   fx.otherId = other.id

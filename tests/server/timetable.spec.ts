@@ -1,7 +1,7 @@
 import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs'
 import { describe, expect, it } from 'vitest'
 import { url } from '@nuxt/test-utils/e2e'
-import { api, GUIDE, ORGANISER, signIn, TRAVELLER, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, useApp } from './app'
 
 await useApp()
 
@@ -23,8 +23,8 @@ describe('contact timetable', () => {
     expect((await api('/api/trips/1/timetable', { cookie: await signIn(GUIDE) })).status).toBe(200)
     const org = await signIn(ORGANISER)
     expect((await api('/api/trips/1/timetable', { cookie: org })).status).toBe(200)
-    const inv = await api('/api/users', { method: 'POST', body: { name: 'Other Guide', email: 'other-guide@umbrafield.test', role: 'guide' }, cookie: org })
-    const other = await signIn('other-guide@umbrafield.test', inv.body.temporaryPassword)
+    await inviteAndChoosePassword(org, { name: 'Other Guide', email: 'other-guide@umbrafield.test', role: 'guide' }, 'other-guide-pw')
+    const other = await signIn('other-guide@umbrafield.test', 'other-guide-pw')
     expect((await api('/api/trips/1/timetable', { cookie: other })).status).toBe(404)
   })
 

@@ -1,5 +1,5 @@
 import { IdParams, RolePatch } from '#shared/schemas/auth'
-import { changeRole } from '../../services/accounts'
+import { changeRole, LastOrganiserError, NotOrganiserError } from '../../services/accounts'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'organiser')
@@ -10,9 +10,8 @@ export default defineEventHandler(async (event) => {
     if (!user) throw createError({ statusCode: 404, statusMessage: 'No such user' })
     return toPublicUser(user)
   } catch (e) {
-    if (e instanceof Error && e.message.startsWith('The last organiser')) {
-      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message })
-    }
+    if (e instanceof LastOrganiserError) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message })
+    if (e instanceof NotOrganiserError) throw createError({ statusCode: 403, statusMessage: 'Not allowed for your role', message: e.message })
     throw e
   }
 })
