@@ -11,6 +11,7 @@ import * as m0009 from './0009_session_version'
 import * as m0010 from './0010_cluster'
 import * as m0011 from './0011_briefing'
 import * as m0012 from './0012_terrain'
+import * as m0014 from './0014_totp'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -26,4 +27,5 @@ export const migrations: Record<string, Migration> = {
   '0010_cluster': m0010,
   '0011_briefing': m0011,
   '0012_terrain': m0012,
+  '0014_totp': m0014,
 }
