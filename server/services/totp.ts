@@ -52,7 +52,7 @@ export async function matchStep(secret: string, token: string, atMs: number, aft
     epochTolerance: TOTP.driftSteps * TOTP.periodSec,
     ...(afterStep !== null ? { afterTimeStep: afterStep } : {}),
   })
-  return r.valid ? r.timeStep : null
+  return r.valid && 'timeStep' in r ? r.timeStep : null
 }
 
 /** Recovery codes: 16 Base32 letters (80 random bits), shown as XXXX-XXXX-XXXX-XXXX. */
