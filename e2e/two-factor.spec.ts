@@ -22,7 +22,8 @@ test('a traveller turns on two-factor sign-in on the account page, then signs in
   await expect(codes.getByRole('listitem')).toHaveCount(10)
   await expect(section.getByText(/10 of 10 recovery codes left/)).toBeVisible()
 
-  await page.getByRole('button', { name: 'Sign out' }).click()
+  await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+  await page.waitForURL((u) => u.pathname === '/')
   await page.goto('/login')
   await hydrated(page)
   await page.getByLabel('E-mail').fill(email)

@@ -6,7 +6,7 @@ import type { Database, Role, User } from '../database/schema'
 import type { SecuritySettings, TotpSetup, TotpStatus } from '../../shared/schemas/totp'
 import { audit } from './audit'
 import { nowIso, nowMs } from './clock'
-import { seal, unseal } from './sealed'
+import { seal, SealError, unseal } from './sealed'
 import { getSetting, putSetting } from './settings'
 
 /**
@@ -163,7 +163,15 @@ export async function checkSecondFactor(db: Kysely<Database>, user: User, input:
   if (!r?.enabled_at || !r.secret_sealed) return false
   const compact = input.replace(/\s+/g, '')
   if (/^\d{6}$/.test(compact)) {
-    const step = await matchStep(unseal(r.secret_sealed, activeContext(user.id)), compact, nowMs(), r.last_step)
+    let secret: string
+    try {
+      secret = unseal(r.secret_sealed, activeContext(user.id))
+    } catch (e) {
+      // The data key that sealed it is gone: app codes cannot be checked; recovery codes still work.
+      if (e instanceof SealError) return false
+      throw e
+    }
+    const step = await matchStep(secret, compact, nowMs(), r.last_step)
     if (step === null) return false
     const res = await db.updateTable('user_totp').set({ last_step: step }).where('user_id', '=', user.id)
       .where((eb) => eb.or([eb('last_step', 'is', null), eb('last_step', '<', step)])).executeTakeFirst()
