@@ -15,3 +15,9 @@ export function useMe() {
 export function safeNext(next: unknown): string {
   return typeof next === 'string' && next.startsWith('/') && !next.startsWith('//') && !next.startsWith('/\\') ? next : '/'
 }
+
+/** Where staff go while the organisation's two-factor rule still needs them to set it up (null: nowhere). */
+export function twoFactorSetupRoute(me: PublicUser | null | undefined, path: string) {
+  if (!me?.twoFactor?.setupRequired || path === '/account') return null
+  return { path: '/account', query: { setup: 'two-factor' }, hash: '#two-factor' }
+}

@@ -9,6 +9,8 @@ export default defineNuxtRouteMiddleware(async (to) => {
   const { data: me, refresh } = useMe()
   if (!me.value) await refresh()
   if (!me.value) return navigateTo({ path: '/login', query: { next: to.fullPath } })
+  const setup = twoFactorSetupRoute(me.value, to.path)
+  if (setup) return navigateTo(setup)
   const roles = to.meta.roles
   if (roles && !roles.includes(me.value.role)) {
     return abortNavigation(createError({ statusCode: 403, statusMessage: 'This page is not available for your role' }))

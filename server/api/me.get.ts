@@ -1,4 +1,7 @@
+import { totpStatus } from '../services/totp'
+
 export default defineEventHandler(async (event) => {
-  const user = await requireUser(event)
-  return toPublicUser(user)
+  const user = await requireUser(event, { totpSetup: true })
+  const totp = await totpStatus(useDb(), user)
+  return { ...toPublicUser(user), twoFactor: { enabled: totp.enabled, setupRequired: totp.setupRequired } }
 })

@@ -3,7 +3,7 @@ import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../s
 import { audit } from '../services/audit'
 
 export default defineEventHandler(async (event) => {
-  const user = await requireUser(event)
+  const user = await requireUser(event, { totpSetup: true })
   const patch = await readBodyAs(event, AccountPatch)
   const db = useDb()
   const set: { name?: string; password_hash?: string } = {}

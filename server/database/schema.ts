@@ -295,10 +295,44 @@ export interface RateLimitHitsTable {
   expires_at: string
 }
 
+/** Two-factor sign-in state of one user (RFC 6238 TOTP); secrets sealed with context "totp:<user id>". */
+export interface UserTotpTable {
+  user_id: number
+  /** The confirmed secret (sealed); null until set-up is confirmed. */
+  secret_sealed: string | null
+  /** When two-factor was turned on (UTC ISO); null while only pending. */
+  enabled_at: string | null
+  /** A secret offered for set-up, not yet confirmed (sealed). */
+  pending_sealed: string | null
+  pending_created_at: string | null
+  /** The last accepted time step (floor(Unix seconds / 30)); a code is accepted once. */
+  last_step: number | null
+}
+
+export interface TotpRecoveryCodesTable {
+  id: Generated<number>
+  user_id: number
+  /** SHA-256 (hex) of the normalised code; the code itself is shown once and never stored. */
+  code_hash: string
+  used_at: string | null
+  created_at: Created
+}
+
+/** App-wide settings, one JSON value per key. */
+export interface AppSettingsTable {
+  key: string
+  value: string
+  updated_at: Auto<string>
+  updated_by: number | null
+}
+
 export interface Database {
   job_leases: JobLeasesTable
   rate_limit_hits: RateLimitHitsTable
   users: UsersTable
+  user_totp: UserTotpTable
+  totp_recovery_codes: TotpRecoveryCodesTable
+  app_settings: AppSettingsTable
   audit_log: AuditLogTable
   sign_in_failures: SignInFailuresTable
   element_sets: ElementSetsTable

@@ -2,6 +2,7 @@ import type { H3Event } from 'h3'
 import type { Role, User } from '../database/schema'
 import type { PublicUser } from '#shared/schemas/auth'
 import { nowIso, nowMs } from '../services/clock'
+import { totpSetupRequired } from '../services/totp'
 
 export function toPublicUser(u: User): PublicUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
@@ -21,8 +22,12 @@ export async function startSession(event: H3Event, user: User) {
  * The signed-in user, read from the database on every call, so a role change or a deleted
  * account takes effect on the next request. A cookie issued under an older session version (the
  * user signed out, changed password or role, or signed out everywhere) is refused. 401 when signed out.
+ *
+ * When the organisation requires two-factor sign-in for staff, an organiser or guide who has not set
+ * it up gets 403 `totp_setup_required` from every route except those that set it up
+ * (`{ totpSetup: true }`: me, me/totp, signing out).
  */
-export async function requireUser(event: H3Event): Promise<User> {
+export async function requireUser(event: H3Event, opts: { totpSetup?: boolean } = {}): Promise<User> {
   const session = await getUserSession(event)
   const id = (session.user as { id?: number } | undefined)?.id
   if (!id) throw createError({ statusCode: 401, statusMessage: 'Sign in first' })
@@ -35,6 +40,9 @@ export async function requireUser(event: H3Event): Promise<User> {
   const renewedAt = Date.parse((session as { renewedAt?: string }).renewedAt ?? '')
   if (!(renewedAt > nowMs() - RENEW_AFTER_MS)) {
     await replaceUserSession(event, { ...session, renewedAt: nowIso() })
+  }
+  if (!opts.totpSetup && await totpSetupRequired(useDb(), user)) {
+    throw createError({ statusCode: 403, statusMessage: 'Two-factor set-up required', message: 'Your organisation requires two-factor sign-in for staff: set it up on your account page first.', data: { code: 'totp_setup_required' } })
   }
   return user
 }

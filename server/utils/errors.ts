@@ -4,6 +4,7 @@ import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
+import { TotpError } from '../services/totp'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -19,6 +20,9 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof WaitlistExistsError) return createError({ statusCode: 409, statusMessage: 'Already waiting', message: e.message, data: { code: 'waitlist_exists' } })
   if (e instanceof EmailUnconfirmedError) return createError({ statusCode: 403, statusMessage: 'E-mail not confirmed', message: e.message, data: { code: 'email_unconfirmed' } })
   if (e instanceof RefundLimitError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { amountMinor: e.message } } })
+  if (e instanceof TotpError) {
+    return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
+  }
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   return null
 }

@@ -9,6 +9,8 @@ const email = z.string({ error: 'Enter a valid e-mail address' }).trim().toLower
 export const LoginBody = z.object({
   email,
   password: z.string({ error: 'Enter your password' }).min(1, 'Enter your password').max(200),
+  /** The second step, for accounts with two-factor sign-in: a code from the app or a recovery code. */
+  totp: z.string().trim().max(64, 'That code is too long').optional(),
 })
 export type LoginInput = z.infer<typeof LoginBody>
 
@@ -64,6 +66,8 @@ export interface PublicUser {
   createdAt: string
   /** Whether the owner confirmed the address (needed to hold seats). */
   emailConfirmed: boolean
+  /** Two-factor sign-in (GET /api/me only): on or off, and whether the organisation's rule still needs it set up. */
+  twoFactor?: { enabled: boolean; setupRequired: boolean }
 }
 
 /** Permission rules shared by client (to hide buttons) and server (to decide). */

@@ -1,5 +1,6 @@
 import { LoginBody } from '#shared/schemas/auth'
 import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../../services/accounts'
+import { checkSecondFactor, totpEnabled } from '../../services/totp'
 
 const GENERIC = 'E-mail or password is not right'
 
@@ -8,7 +9,7 @@ let dummy: Promise<string> | undefined
 const dummyHash = () => (dummy ??= hashPassword('no such account: the answer must take as long'))
 
 export default defineEventHandler(async (event) => {
-  const { email, password } = await readBodyAs(event, LoginBody)
+  const { email, password, totp } = await readBodyAs(event, LoginBody)
   const db = useDb()
   const ip = clientIp(event)
   try {
@@ -25,6 +26,17 @@ export default defineEventHandler(async (event) => {
   if (!user || !ok) {
     await recordFailure(db, email, ip)
     throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: GENERIC })
+  }
+  // Two-factor, asked only once the password is right. This attempt stays recorded until a full
+  // sign-in succeeds, so wrong codes (and code-less tries) count towards the same backoff.
+  if (await totpEnabled(db, user.id)) {
+    if (!totp) {
+      throw createError({ statusCode: 401, statusMessage: 'Code needed', message: 'Enter the 6-digit code from your authenticator app, or a recovery code.', data: { code: 'totp_required' } })
+    }
+    if (!(await checkSecondFactor(db, user, totp, ip))) {
+      await recordFailure(db, email, ip)
+      throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: 'That code is not right, or it was already used.', data: { code: 'totp_invalid' } })
+    }
   }
   await recordSuccess(db, user, ip)
   await startSession(event, user)

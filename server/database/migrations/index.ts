@@ -12,6 +12,7 @@ import * as m0010 from './0010_cluster'
 import * as m0011 from './0011_briefing'
 import * as m0012 from './0012_terrain'
 import * as m0013 from './0013_account_tokens'
+import * as m0014 from './0014_totp'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -28,4 +29,5 @@ export const migrations: Record<string, Migration> = {
   '0011_briefing': m0011,
   '0012_terrain': m0012,
   '0013_account_tokens': m0013,
+  '0014_totp': m0014,
 }
