@@ -1,6 +1,5 @@
-import { createHash, randomBytes } from 'node:crypto'
+import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto'
 import type { Kysely, Transaction } from 'kysely'
-import { generate, generateSecret, generateURI, verify } from 'otplib'
 import QRCode from 'qrcode'
 import type { Database, Role, User } from '../database/schema'
 import type { SecuritySettings, TotpSetup, TotpStatus } from '../../shared/schemas/totp'
@@ -15,11 +14,14 @@ import { getSetting, putSetting } from './settings'
  * comes from the clock service. A code is accepted for its own step and one step either side (clock
  * drift between phone and server, RFC 6238 §5.2), and only once: the last accepted step is stored.
  *
+ * Written on node:crypto rather than a TOTP package: the one installed brings a second major version
+ * of a hashing library that the PDF renderer also uses, and the server bundle can hold only one.
+ *
  * The secret is sealed at rest (AES-256-GCM, ./sealed) bound to "totp:<user id>"; a secret offered
  * for set-up but not yet confirmed is sealed to "totp-pending:<user id>", so one cannot be copied
  * over the other. Recovery codes are 80 random bits each, stored only as SHA-256.
  */
-export const TOTP = { periodSec: 30, digits: 6, driftSteps: 1, issuer: 'Umbrafield', recoveryCodes: 10 } as const
+export const TOTP = { periodSec: 30, digits: 6, driftSteps: 1, issuer: 'Umbrafield', secretBytes: 20, recoveryCodes: 10 } as const
 
 const STAFF: readonly Role[] = ['organiser', 'guide']
 export const isStaff = (role: Role) => STAFF.includes(role)
@@ -32,43 +34,75 @@ export class TotpError extends Error {
   constructor(public statusCode: number, public code: string, message: string, public field?: string) { super(message) }
 }
 
+/** RFC 4648 §6 Base32 (no padding), the form authenticator apps take secrets in. */
+const BASE32 = 'ABCDEFGHIJKLMNOPQRSTUVWXYZ234567'
+export function base32Encode(bytes: Uint8Array): string {
+  let bits = 0
+  let value = 0
+  let out = ''
+  for (const b of bytes) {
+    value = ((value << 8) | b) & 0xffff
+    bits += 8
+    while (bits >= 5) { out += BASE32[(value >>> (bits - 5)) & 31]; bits -= 5 }
+  }
+  return bits > 0 ? out + BASE32[(value << (5 - bits)) & 31] : out
+}
+export function base32Decode(text: string): Buffer {
+  const out: number[] = []
+  let bits = 0
+  let value = 0
+  for (const ch of text.toUpperCase().replace(/[\s=]/g, '')) {
+    const v = BASE32.indexOf(ch)
+    if (v < 0) throw new Error('Not Base32')
+    value = ((value << 5) | v) & 0xffff
+    bits += 5
+    if (bits >= 8) { out.push((value >>> (bits - 8)) & 255); bits -= 8 }
+  }
+  return Buffer.from(out)
+}
+
+type Algorithm = 'sha1' | 'sha256' | 'sha512'
+
+/** HOTP (RFC 4226 §5.3): HMAC of the 8-byte big-endian counter, dynamic truncation, modulo 10^digits. */
+function hotp(key: Uint8Array, counter: number, digits: number, algorithm: Algorithm): string {
+  const msg = Buffer.alloc(8)
+  msg.writeBigUInt64BE(BigInt(counter))
+  const mac = createHmac(algorithm, key).update(msg).digest()
+  const offset = mac[mac.length - 1]! & 0x0f
+  const bin = ((mac[offset]! & 0x7f) << 24) | (mac[offset + 1]! << 16) | (mac[offset + 2]! << 8) | mac[offset + 3]!
+  return String(bin % 10 ** digits).padStart(digits, '0')
+}
+
+/** The time step of `atMs` (ms since the Unix epoch, UTC): floor(seconds / 30), T0 = 0. */
+export const timeStep = (atMs: number) => Math.floor(Math.floor(atMs / 1000) / TOTP.periodSec)
+
 /**
  * The TOTP value of `secret` (Base32 text, or raw key bytes) at `atMs` (ms since the Unix epoch,
- * UTC): HOTP (RFC 4226) of the step floor(seconds / 30).
+ * UTC): HOTP of the time step (RFC 6238 §4.2).
  */
-export async function totpCode(secret: string | Uint8Array, atMs: number, opts: { digits?: number; algorithm?: 'sha1' | 'sha256' | 'sha512' } = {}): Promise<string> {
-  return generate({ secret, epoch: Math.floor(atMs / 1000), period: TOTP.periodSec, digits: opts.digits ?? TOTP.digits, algorithm: opts.algorithm ?? 'sha1' })
+export function totpCode(secret: string | Uint8Array, atMs: number, opts: { digits?: number; algorithm?: Algorithm } = {}): string {
+  const key = typeof secret === 'string' ? base32Decode(secret) : secret
+  return hotp(key, timeStep(atMs), opts.digits ?? TOTP.digits, opts.algorithm ?? 'sha1')
 }
 
 /**
  * The time step whose code `token` is, within ±driftSteps of `atMs` and after `afterStep`; null when
  * it matches none (or is not 6 digits).
  */
-export async function matchStep(secret: string, token: string, atMs: number, afterStep: number | null): Promise<number | null> {
+export function matchStep(secret: string, token: string, atMs: number, afterStep: number | null): number | null {
   if (!/^\d{6}$/.test(token)) return null
-  const r = await verify({
-    secret, token, epoch: Math.floor(atMs / 1000), period: TOTP.periodSec, digits: TOTP.digits,
-    // A tolerance of one period in seconds spans exactly the steps before and after the current one.
-    epochTolerance: TOTP.driftSteps * TOTP.periodSec,
-    ...(afterStep !== null ? { afterTimeStep: afterStep } : {}),
-  })
-  return r.valid && 'timeStep' in r ? r.timeStep : null
+  const key = base32Decode(secret)
+  const now = timeStep(atMs)
+  for (let d = -TOTP.driftSteps; d <= TOTP.driftSteps; d++) {
+    const step = now + d
+    if (afterStep !== null && step <= afterStep) continue
+    if (timingSafeEqual(Buffer.from(hotp(key, step, TOTP.digits, 'sha1')), Buffer.from(token))) return step
+  }
+  return null
 }
 
 /** Recovery codes: 16 Base32 letters (80 random bits), shown as XXXX-XXXX-XXXX-XXXX. */
-const BASE32 = 'ABCDEFGHIJKLMNOPQRSTUVWXYZ234567'
-function newRecoveryCode(): string {
-  const bytes = randomBytes(10)
-  let bits = 0
-  let value = 0
-  let out = ''
-  for (const b of bytes) {
-    value = (value << 8) | b
-    bits += 8
-    while (bits >= 5) { out += BASE32[(value >>> (bits - 5)) & 31]; bits -= 5 }
-  }
-  return out.match(/.{4}/g)!.join('-')
-}
+const newRecoveryCode = () => base32Encode(randomBytes(10)).match(/.{4}/g)!.join('-')
 const normaliseRecovery = (code: string) => code.toUpperCase().replace(/[^A-Z2-7]/g, '')
 const recoveryHash = (code: string) => createHash('sha256').update(normaliseRecovery(code)).digest('hex')
 
@@ -121,11 +155,13 @@ export async function totpSetupRequired(db: Kysely<Database>, user: User): Promi
 export async function startTotpSetup(db: Kysely<Database>, user: User): Promise<TotpSetup> {
   const existing = await row(db, user.id)
   if (existing?.enabled_at) throw new TotpError(409, 'totp_already_enabled', 'Two-factor sign-in is already on. Turn it off first to move it to another app.')
-  const secret = generateSecret({ length: 20 })
+  const secret = base32Encode(randomBytes(TOTP.secretBytes))
   const pending = { pending_sealed: seal(secret, pendingContext(user.id)), pending_created_at: nowIso() }
   await db.insertInto('user_totp').values({ user_id: user.id, secret_sealed: null, enabled_at: null, last_step: null, ...pending })
     .onConflict((oc) => oc.column('user_id').doUpdateSet(pending)).execute()
-  const otpauthUrl = generateURI({ issuer: TOTP.issuer, label: user.email, secret, period: TOTP.periodSec, digits: TOTP.digits, algorithm: 'sha1' })
+  // Key URI format understood by authenticator apps: otpauth://totp/<issuer>:<account>?secret=…&issuer=…
+  const params = new URLSearchParams({ secret, issuer: TOTP.issuer, algorithm: 'SHA1', digits: String(TOTP.digits), period: String(TOTP.periodSec) })
+  const otpauthUrl = `otpauth://totp/${encodeURIComponent(TOTP.issuer)}:${encodeURIComponent(user.email)}?${params}`
   const qrSvg = await QRCode.toString(otpauthUrl, { type: 'svg', errorCorrectionLevel: 'M', margin: 2 })
   return { secret, otpauthUrl, qrSvg }
 }
@@ -136,7 +172,7 @@ export async function confirmTotpSetup(db: Kysely<Database>, user: User, code: s
   if (r?.enabled_at) throw new TotpError(409, 'totp_already_enabled', 'Two-factor sign-in is already on.')
   if (!r?.pending_sealed) throw new TotpError(409, 'totp_not_started', 'Start the set-up first: a new secret has not been offered.')
   const secret = unseal(r.pending_sealed, pendingContext(user.id))
-  const step = await matchStep(secret, code, nowMs(), null)
+  const step = matchStep(secret, code, nowMs(), null)
   if (step === null) throw new TotpError(400, 'totp_invalid', 'That code is not right. Check the time on your phone and try the newest code.', 'code')
   const codes = Array.from({ length: TOTP.recoveryCodes }, newRecoveryCode)
   await db.transaction().execute(async (trx) => {
@@ -171,7 +207,7 @@ export async function checkSecondFactor(db: Kysely<Database>, user: User, input:
       if (e instanceof SealError) return false
       throw e
     }
-    const step = await matchStep(secret, compact, nowMs(), r.last_step)
+    const step = matchStep(secret, compact, nowMs(), r.last_step)
     if (step === null) return false
     const res = await db.updateTable('user_totp').set({ last_step: step }).where('user_id', '=', user.id)
       .where((eb) => eb.or([eb('last_step', 'is', null), eb('last_step', '<', step)])).executeTakeFirst()
