@@ -52,9 +52,12 @@ export function placeMinZoom(population: number): number {
 }
 
 interface Indexes { base: GeoJSONVT; places: GeoJSONVT }
-/** About 20 000 tiles at a few kB each keeps the index well under 100 MB before it is rebuilt. */
+/**
+ * About 20 000 tiles at a few kB each keeps the index well under 100 MB before it is rebuilt. The
+ * rebuild (a few seconds of CPU) runs in the background in stages, the old index serving meanwhile.
+ */
 const TILE_INDEX_MAX = 20_000
-const indexes = new RebuildingIndex<Indexes>(() => build(), TILE_INDEX_MAX)
+const indexes = new RebuildingIndex<Indexes>(build, TILE_INDEX_MAX)
 
 /** Reads a world-atlas file at run time (too large to bundle; traced into the build by nuxt.config). */
 function atlas<T>(file: string): T {
@@ -62,12 +65,18 @@ function atlas<T>(file: string): T {
   return JSON.parse(readFileSync(path, 'utf8')) as T
 }
 
-function build(): Indexes {
+/** Builds the indexes in stages (each `yield` lets the event loop serve requests before the next). */
+function* build(): Generator<void, Indexes, void> {
   const ctopo = atlas<Topology<{ countries: GeometryCollection }>>('countries-10m.json')
+  yield
   const ltopo = atlas<Topology<{ land: GeometryCollection }>>('land-10m.json')
+  yield
   const land = feature(ltopo, ltopo.objects.land) as unknown as GeoJSON.FeatureCollection
+  yield
   const borders = mesh(ctopo, ctopo.objects.countries, (a, b) => a !== b)
+  yield
   const coast = mesh(ltopo, ltopo.objects.land)
+  yield
   const base: GeoJSON.FeatureCollection = {
     type: 'FeatureCollection',
     features: [
@@ -85,8 +94,11 @@ function build(): Indexes {
         properties: { name: c.name, population: c.population, minzoom: placeMinZoom(c.population), country: c.country },
       })),
   }
+  yield
+  const baseIndex = new GeoJSONVT(base as never, { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 })
+  yield
   return {
-    base: new GeoJSONVT(base as never, { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 }),
+    base: baseIndex,
     places: new GeoJSONVT(places as never, { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 }),
   }
 }
