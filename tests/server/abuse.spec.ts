@@ -96,6 +96,23 @@ describe('public eclipse routes are rate-limited per client address', () => {
   })
 })
 
+describe(`sign-in backoff counts IPv6 clients per /64 (${TEST_DB})`, () => {
+  it('thirty failed sign-ins from one /64, each from a new address and for a new e-mail, then the next waits', async () => {
+    const statuses: number[] = []
+    for (let i = 1; i <= 31; i++) {
+      const r = await fetch(url('/api/auth/login'), {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-forwarded-for': `2001:db8:99:1:${i.toString(16)}::1` },
+        body: JSON.stringify({ email: `nobody-${i}@umbrafield.test`, password: 'not-the-password' }),
+      })
+      statuses.push(r.status)
+    }
+    // Thirty free failures per address in 15 minutes (THROTTLE.freeByIp), then a wait.
+    expect(statuses.slice(0, 30).every((s) => s === 401)).toBe(true)
+    expect(statuses[30]).toBe(429)
+  })
+})
+
 describe(`large bodies only from a signed-in organiser (${TEST_DB})`, () => {
   it.each(['/api/climatology', '/api/workspaces/1/terrain', '/api/workspaces/1/sites/import'])('an anonymous 1 MB POST to %s gets 413 before its body is read', async (path) => {
     const { req, answer } = partialUpload(path, MULTIPART, 1 * MB, Buffer.alloc(1024, 'a'))
