@@ -2,7 +2,7 @@ import { test as base, expect, type Page } from '@playwright/test'
 import { E2E_NOW } from './clock'
 
 /** Every test fails if the page asks for anything that is not on this machine. */
-export const test = base.extend<{ outside: string[]; fixedClock: undefined }>({
+export const test = base.extend<{ outside: string[]; fixedClock: undefined; cspViolations: string[] }>({
   /** Every page runs on the fixed test date (e2e/clock.ts); time still flows from there. */
   fixedClock: [async ({ page }, use) => {
     await page.clock.install({ time: E2E_NOW })
@@ -17,6 +17,13 @@ export const test = base.extend<{ outside: string[]; fixedClock: undefined }>({
     })
     await use(outside)
     expect(outside, 'requests that left the machine').toEqual([])
+  }, { auto: true }],
+  /** Every test fails if a page breaks its Content Security Policy (a script without the nonce, a blocked worker). */
+  cspViolations: [async ({ page }, use) => {
+    const seen: string[] = []
+    page.on('console', (m) => { if (m.type() === 'error' && /Content Security Policy/i.test(m.text())) seen.push(m.text()) })
+    await use(seen)
+    expect(seen, 'Content Security Policy violations').toEqual([])
   }, { auto: true }],
 })
 export { expect }

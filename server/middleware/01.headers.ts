@@ -1,13 +1,17 @@
+import { randomBytes } from 'node:crypto'
+
 /**
  * Security headers on every response, pages and API alike.
- * CSP: everything from this origin; MapLibre needs blob: workers and images; Nuxt's hydration
- * payload is an inline script, hence 'unsafe-inline' for scripts (no third-party origin is allowed,
- * so an injected script could not load anything from elsewhere). frame-ancestors 'none' forbids framing.
+ * CSP: everything from this origin; MapLibre needs blob: workers and images, and the countdown's
+ * service worker is /sw.js ('self'). Inline scripts run only with this response's nonce: a fresh one
+ * per request (event.context.cspNonce), which server/plugins/06.csp-nonce.ts writes on the scripts
+ * Nuxt itself puts in the page (its config and payload), and no inline script an attacker might get
+ * into the page could know. frame-ancestors 'none' forbids framing.
  * HSTS only when the app is served over HTTPS (directly, or behind a proxy that says so).
  */
-const CSP = [
+const cspWithNonce = (nonce: string) => [
   "default-src 'self'",
-  "script-src 'self' 'unsafe-inline'",
+  `script-src 'self' 'nonce-${nonce}'`,
   "style-src 'self' 'unsafe-inline'",
   "img-src 'self' data: blob:",
   "font-src 'self' data:",
@@ -21,8 +25,10 @@ const CSP = [
 ].join('; ')
 
 export default defineEventHandler((event) => {
+  const nonce = randomBytes(16).toString('base64')
+  event.context.cspNonce = nonce
   setResponseHeaders(event, {
-    'Content-Security-Policy': CSP,
+    'Content-Security-Policy': cspWithNonce(nonce),
     'X-Content-Type-Options': 'nosniff',
     'X-Frame-Options': 'DENY',
     'Referrer-Policy': 'same-origin',

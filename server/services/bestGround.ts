@@ -13,6 +13,7 @@ import { isLand } from './land'
 import { getWorkspace } from './planning'
 import { terrainFor } from './terrain'
 import { nowIso, nowMs } from './clock'
+import { searchGrid } from './searchGrid'
 
 const r1 = (v: number) => Math.round(v * 10) / 10
 const r4 = (v: number) => Math.round(v * 1e4) / 1e4
@@ -113,8 +114,8 @@ export async function expectedSeenAt(db: Kysely<Database>, workspaceId: number, 
 }
 
 /**
- * The best ground near a point: a grid of at most about 31,000 points over the disc (spacing
- * radius/100, at least 1 km), ranked by expected seen seconds (or duration without a climatology),
+ * The best ground near a point: a grid of at most SEARCH_GRID_MAX_POINTS points over the disc (spacing
+ * radius/100, at least 1 km, wider near a pole; see searchGrid), ranked by expected seen seconds (or duration without a climatology),
  * taken greedily on land and at least 5 km apart, each then nudged uphill in its own cell, and
  * finally evaluated exactly as the local-circumstances route does.
  */
@@ -123,7 +124,6 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
   const ctx = await groundContext(db, workspaceId)
   const evaluate = centralDurationEvaluator(ctx.el, ctx.dt.deltaTSec)
   const pAt = ctx.grids ? pClearSampler(ctx.grids) : null
-  const stepKm = Math.max(1, q.radiusKm / 100)
   const scoreAt = (lat: number, lon: number, guess = 0): { score: number; t: number } => {
     const s = evaluate(lat, wrapLon(lon), ctx.terrain?.heightAt(lat, wrapLon(lon)) ?? 0, guess)
     if (!(s.durationSec > 0) || s.sunAltitudeDeg < q.minSunAltitudeDeg) return { score: -1, t: s.tMax }
@@ -132,21 +132,13 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
     return { score: p === null ? -1 : s.durationSec * p, t: s.tMax }
   }
   const candidates: Array<{ lat: number; lon: number; score: number }> = []
-  const dLat = stepKm / 111.2
-  const n = Math.ceil(q.radiusKm / stepKm)
+  const grid = searchGrid(q.lat, q.lon, q.radiusKm, Math.max(1, q.radiusKm / 100))
+  const stepKm = grid.stepKm
   let guess = 0
-  for (let i = -n; i <= n; i++) {
-    const lat = q.lat + i * dLat
-    if (Math.abs(lat) > 89.5) continue
-    const dLon = dLat / Math.max(0.01, Math.cos((lat * Math.PI) / 180))
-    const m = Math.ceil(q.radiusKm / stepKm / Math.max(0.01, Math.cos((lat * Math.PI) / 180)))
-    for (let j = -m; j <= m; j++) {
-      const lon = q.lon + j * dLon
-      if (haversineKm(q.lat, q.lon, lat, lon) > q.radiusKm) continue
-      const s = scoreAt(lat, lon, guess)
-      guess = s.t
-      if (s.score > 0) candidates.push({ lat, lon, score: s.score })
-    }
+  for (const { lat, lon } of grid.points) {
+    const s = scoreAt(lat, lon, guess)
+    guess = s.t
+    if (s.score > 0) candidates.push({ lat, lon, score: s.score })
   }
   const evaluated = candidates.length
   candidates.sort((a, b) => b.score - a.score)
@@ -191,7 +183,7 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
     data,
     meta: {
       measure: pAt ? 'expected' as const : 'duration' as const,
-      radiusKm: q.radiusKm, gridStepKm: stepKm, separationKm: BEST_SPOT_SEPARATION_KM, pointsInPath: evaluated, landChecks,
+      radiusKm: q.radiusKm, gridStepKm: r1(stepKm), gridPoints: grid.points.length, separationKm: BEST_SPOT_SEPARATION_KM, pointsInPath: evaluated, landChecks,
       note: climatologyNote(ctx),
       land: 'Natural Earth 1:10m land (public domain): coastlines are good to about 1 km.',
       elevation: ctx.terrain ? `heights from the terrain model "${ctx.terrain.name}" where it covers a spot, else sea level` : 'sea level (no terrain model uploaded)',

@@ -2,15 +2,27 @@ import type { Kysely } from 'kysely'
 import type { BesselianElements, Site } from '../../shared/eclipse/types'
 import { PublishedElements, type PublishedElementsInput } from '../../shared/schemas/elements'
 import type { Database, User } from '../database/schema'
-import { catalogue, computedElementsFor, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
+import { catalogue, rowFromElements, type CatalogueRow } from '../eclipse/catalogue'
 import { localReport, pathReport, resolveTimeBasis, timeBasisOut } from '../eclipse/report'
 import { audit } from './audit'
 import { businessDate, nowIso } from './clock'
 
 export class UnknownEclipseError extends Error {}
 
+/**
+ * The stored catalogue's computed set for an eclipse id, or UnknownEclipseError. Only the 1900–2100
+ * catalogue is served: an id outside it is refused here, before any element computation (computing a
+ * set from the full lunar series costs about half a second of CPU, far too much for a public route).
+ */
+function catalogued(id: string): BesselianElements {
+  const el = catalogue().elements.get(id)
+  if (!el) throw new UnknownEclipseError(`No solar eclipse on ${id} in the catalogue (1900–2100)`)
+  return el
+}
+
 /** The element set in force for an eclipse: the newest published set if any, else the computed one; plus the ΔT override. */
 export async function elementsInForce(db: Kysely<Database>, id: string): Promise<{ el: BesselianElements; key: string; deltaTOverride: number | null }> {
+  const computed = catalogued(id)
   const published = await db.selectFrom('element_sets').select(['id', 'elements']).where('eclipse_id', '=', id)
     .orderBy('id', 'desc').executeTakeFirst()
   const settings = await db.selectFrom('eclipse_settings').select('delta_t_sec').where('eclipse_id', '=', id).executeTakeFirst()
@@ -19,9 +31,7 @@ export async function elementsInForce(db: Kysely<Database>, id: string): Promise
     const el = { ...PublishedElements.parse(JSON.parse(published.elements)), kind: 'published' as const }
     return { el, key: `published:${published.id}`, deltaTOverride }
   }
-  const el = computedElementsFor(id)
-  if (!el) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
-  return { el, key: 'computed', deltaTOverride }
+  return { el: computed, key: 'computed', deltaTOverride }
 }
 
 export function listEclipses(q: { from?: number; to?: number; type?: string; upcoming?: string }): CatalogueRow[] {
@@ -38,58 +48,75 @@ export function listEclipses(q: { from?: number; to?: number; type?: string; upc
 }
 
 /**
- * In-memory cache for path and local results, keyed by element set, ΔT and the request, bounded by
- * size (about 64 MB of JSON), oldest first out.
+ * Results computed on demand for the public routes are kept in two in-memory caches, oldest out:
+ * - `bounded`: eclipse details and paths at the ΔT in force. Their keys come from a small, known set
+ *   (catalogue id × element set × step × wrap), so every one of them can be cached, up to about 64 MB.
+ * - `whatIf`: local circumstances for any site and paths at a ΔT the caller chose. Their key space has
+ *   no useful bound, so they live in a small cache of their own (at most WHAT_IF_MAX entries) and cannot
+ *   push the bounded results out; what they cost is capped by the per-address rate limits on the routes.
  */
-const cache = new Map<string, { v: unknown; bytes: number }>()
-const CACHE_MAX_BYTES = 64 * 1024 * 1024
-let cacheBytes = 0
-function cached<T>(key: string, make: () => T): T {
-  const hit = cache.get(key)
-  if (hit) return hit.v as T
-  const v = make()
-  const bytes = JSON.stringify(v).length
-  while (cache.size && cacheBytes + bytes > CACHE_MAX_BYTES) {
-    const oldest = cache.keys().next().value!
-    cacheBytes -= cache.get(oldest)!.bytes
-    cache.delete(oldest)
+class SizedCache {
+  private readonly map = new Map<string, { v: unknown; bytes: number }>()
+  private bytes = 0
+  constructor(private readonly maxBytes: number, private readonly maxEntries: number) {}
+  get<T>(key: string, make: () => T): T {
+    const hit = this.map.get(key)
+    if (hit) return hit.v as T
+    const v = make()
+    const bytes = JSON.stringify(v).length
+    while (this.map.size && (this.bytes + bytes > this.maxBytes || this.map.size >= this.maxEntries)) {
+      const oldest = this.map.keys().next().value!
+      this.bytes -= this.map.get(oldest)!.bytes
+      this.map.delete(oldest)
+    }
+    this.map.set(key, { v, bytes })
+    this.bytes += bytes
+    return v
   }
-  cache.set(key, { v, bytes })
-  cacheBytes += bytes
-  return v
+  clear() {
+    this.map.clear()
+    this.bytes = 0
+  }
 }
+const bounded = new SizedCache(64 * 1024 * 1024, Infinity)
+/** Local circumstances are a few kB each; paths at a chosen ΔT up to a few hundred kB. */
+const WHAT_IF_MAX = 500
+const whatIf = new SizedCache(32 * 1024 * 1024, WHAT_IF_MAX)
 function clearCache() {
-  cache.clear()
-  cacheBytes = 0
+  bounded.clear()
+  whatIf.clear()
 }
 
 export async function eclipseDetail(db: Kysely<Database>, id: string) {
-  const { el, deltaTOverride } = await elementsInForce(db, id)
-  const dt = resolveTimeBasis(el, deltaTOverride)
-  return {
-    ...rowFromElements(el, dt.deltaTSec, dt.ttMinusClockSec),
-    deltaT: { sec: dt.deltaTSec, sigmaSec: Math.round(dt.deltaTSigmaSec * 10) / 10, basis: dt.deltaTBasis, override: deltaTOverride },
-    time: timeBasisOut(dt, el),
-    elements: el,
-  }
+  const { el, key, deltaTOverride } = await elementsInForce(db, id)
+  return bounded.get(`detail|${id}|${key}|${deltaTOverride}`, () => {
+    const dt = resolveTimeBasis(el, deltaTOverride)
+    return {
+      ...rowFromElements(el, dt.deltaTSec, dt.ttMinusClockSec),
+      deltaT: { sec: dt.deltaTSec, sigmaSec: Math.round(dt.deltaTSigmaSec * 10) / 10, basis: dt.deltaTBasis, override: deltaTOverride },
+      time: timeBasisOut(dt, el),
+      elements: el,
+    }
+  })
 }
 
 export async function eclipsePathFor(db: Kysely<Database>, id: string, q: { step?: number; deltaT?: number; wrap?: 'split' | 'unwrap' }) {
   const { el, key, deltaTOverride } = await elementsInForce(db, id)
   const deltaT = q.deltaT ?? deltaTOverride
-  return cached(`path|${id}|${key}|${deltaT}|${q.step ?? 60}|${q.wrap ?? 'split'}`,
+  const cache = q.deltaT === undefined ? bounded : whatIf
+  return cache.get(`path|${id}|${key}|${deltaT}|${q.step ?? 60}|${q.wrap ?? 'split'}`,
     () => pathReport(id, el, { stepSec: q.step ?? 60, deltaT, wrap: q.wrap }))
 }
 
 export async function eclipseLocalFor(db: Kysely<Database>, id: string, site: Site, deltaTReq?: number) {
   const { el, key, deltaTOverride } = await elementsInForce(db, id)
   const deltaT = deltaTReq ?? deltaTOverride
-  return cached(`local|${id}|${key}|${deltaT}|${site.latDeg}|${site.lonDeg}|${site.elevationM ?? 0}`,
+  return whatIf.get(`local|${id}|${key}|${deltaT}|${site.latDeg}|${site.lonDeg}|${site.elevationM ?? 0}`,
     () => localReport(id, el, site, deltaT))
 }
 
 export async function importPublishedElements(db: Kysely<Database>, actor: User, id: string, input: PublishedElementsInput) {
-  if (!computedElementsFor(id)) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
+  catalogued(id)
   const el: BesselianElements = { ...input, kind: 'published' }
   // The set must describe this eclipse: its greatest eclipse must fall on the same UTC date.
   const row = rowFromElements(el)
@@ -113,7 +140,7 @@ export async function removePublishedElements(db: Kysely<Database>, actor: User,
 }
 
 export async function setDeltaTOverride(db: Kysely<Database>, actor: User, id: string, deltaTSec: number | null) {
-  if (!computedElementsFor(id)) throw new UnknownEclipseError(`No solar eclipse on ${id}`)
+  catalogued(id)
   await db.transaction().execute(async (trx) => {
     await trx.insertInto('eclipse_settings').values({ eclipse_id: id, delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: nowIso() })
       .onConflict((oc) => oc.column('eclipse_id').doUpdateSet({ delta_t_sec: deltaTSec, updated_by: actor.id, updated_at: nowIso() }))

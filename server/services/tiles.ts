@@ -51,10 +51,14 @@ export function placeMinZoom(population: number): number {
   return 8
 }
 
-interface Indexes { base: GeoJSONVT; places: GeoJSONVT }
-/** About 20 000 tiles at a few kB each keeps the index well under 100 MB before it is rebuilt. */
+interface Indexes { land: GeoJSONVT; borders: GeoJSONVT; coast: GeoJSONVT; places: GeoJSONVT }
+/**
+ * About 20 000 tiles at a few kB each keeps the index well under 100 MB before it is rebuilt. The
+ * rebuild (a few seconds of CPU) runs in the background in stages (one layer index each), the old
+ * index serving meanwhile.
+ */
 const TILE_INDEX_MAX = 20_000
-const indexes = new RebuildingIndex<Indexes>(() => build(), TILE_INDEX_MAX)
+const indexes = new RebuildingIndex<Indexes>(build, TILE_INDEX_MAX)
 
 /** Reads a world-atlas file at run time (too large to bundle; traced into the build by nuxt.config). */
 function atlas<T>(file: string): T {
@@ -62,33 +66,35 @@ function atlas<T>(file: string): T {
   return JSON.parse(readFileSync(path, 'utf8')) as T
 }
 
-function build(): Indexes {
+/** Builds the indexes in stages (each `yield` lets the event loop serve requests before the next). */
+function* build(): Generator<void, Indexes, void> {
   const ctopo = atlas<Topology<{ countries: GeometryCollection }>>('countries-10m.json')
+  yield
   const ltopo = atlas<Topology<{ land: GeometryCollection }>>('land-10m.json')
-  const land = feature(ltopo, ltopo.objects.land) as unknown as GeoJSON.FeatureCollection
+  yield
+  const landTopo = feature(ltopo, ltopo.objects.land) as unknown as GeoJSON.FeatureCollection
+  yield
   const borders = mesh(ctopo, ctopo.objects.countries, (a, b) => a !== b)
+  yield
   const coast = mesh(ltopo, ltopo.objects.land)
-  const base: GeoJSON.FeatureCollection = {
-    type: 'FeatureCollection',
-    features: [
-      ...land.features.map((f) => ({ ...f, geometry: unwrapGeometry(f.geometry), properties: { layer: 'land' } })),
-      { type: 'Feature', geometry: unwrapGeometry(borders as GeoJSON.Geometry), properties: { layer: 'borders' } },
-      { type: 'Feature', geometry: unwrapGeometry(coast as GeoJSON.Geometry), properties: { layer: 'coast' } },
-    ],
-  }
-  const places: GeoJSON.FeatureCollection = {
-    type: 'FeatureCollection',
-    features: (cities as Array<{ name: string; population: number; country: string; loc: { coordinates: [number, number] } }>)
-      .filter((c) => c.population >= 15_000)
-      .map((c) => ({
-        type: 'Feature', geometry: { type: 'Point', coordinates: c.loc.coordinates },
-        properties: { name: c.name, population: c.population, minzoom: placeMinZoom(c.population), country: c.country },
-      })),
-  }
-  return {
-    base: new GeoJSONVT(base as never, { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 }),
-    places: new GeoJSONVT(places as never, { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 }),
-  }
+  yield
+  // One index per layer, so that a rebuild's stages (one index each) stay short.
+  const layer = (features: GeoJSON.Feature[]): GeoJSON.FeatureCollection => ({ type: 'FeatureCollection', features })
+  const land = layer(landTopo.features.map((f) => ({ ...f, geometry: unwrapGeometry(f.geometry), properties: { layer: 'land' } })))
+  const options = { maxZoom: TILE_MAX_ZOOM, indexMaxZoom: 4, tolerance: 3, buffer: 64, extent: 4096 }
+  const landIndex = new GeoJSONVT(land as never, options)
+  yield
+  const bordersIndex = new GeoJSONVT(layer([{ type: 'Feature', geometry: unwrapGeometry(borders as GeoJSON.Geometry), properties: { layer: 'borders' } }]) as never, options)
+  yield
+  const coastIndex = new GeoJSONVT(layer([{ type: 'Feature', geometry: unwrapGeometry(coast as GeoJSON.Geometry), properties: { layer: 'coast' } }]) as never, options)
+  yield
+  const places = layer((cities as Array<{ name: string; population: number; country: string; loc: { coordinates: [number, number] } }>)
+    .filter((c) => c.population >= 15_000)
+    .map((c) => ({
+      type: 'Feature', geometry: { type: 'Point', coordinates: c.loc.coordinates },
+      properties: { name: c.name, population: c.population, minzoom: placeMinZoom(c.population), country: c.country },
+    })))
+  return { land: landIndex, borders: bordersIndex, coast: coastIndex, places: new GeoJSONVT(places as never, options) }
 }
 
 const cache = new Map<string, Uint8Array>()
@@ -105,13 +111,12 @@ export function tile(z: number, x: number, y: number): Uint8Array {
     return hit
   }
   const index = indexes.for(key)
-  const base = index.base.getTile(z, x, y) as { features: Array<{ tags: { layer: string } }> } | null
+  const cut = (layer: 'land' | 'borders' | 'coast') => index[layer].getTile(z, x, y) ?? EMPTY
   const places = index.places.getTile(z, x, y) as { features: Array<{ tags: { minzoom: number } }> } | null
-  const pick = (layer: string) => (base ? { ...base, features: base.features.filter((f) => f.tags.layer === layer) } : EMPTY)
   const buf = fromGeojsonVt({
-    land: pick('land'),
-    borders: pick('borders'),
-    coast: pick('coast'),
+    land: cut('land'),
+    borders: cut('borders'),
+    coast: cut('coast'),
     places: places ? { ...places, features: places.features.filter((f) => f.tags.minzoom <= Math.max(z, 2)) } : EMPTY,
   } as never, { version: 2, extent: 4096 })
   if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!)

@@ -3,6 +3,7 @@ import type { Role, User } from '../database/schema'
 import type { PublicUser } from '#shared/schemas/auth'
 import { nowIso, nowMs } from '../services/clock'
 import { totpSetupRequired } from '../services/totp'
+import { clientAddressFrom, parseTrustedProxies, throttleBucket, type TrustedProxies } from './clientAddress'
 
 export function toPublicUser(u: User): PublicUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
@@ -66,17 +67,27 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Use
   return user
 }
 
-/**
- * Whether the request came through a proxy we trust (NUXT_TRUSTED_PROXIES: comma-separated
- * addresses, e.g. "127.0.0.1"): only then are X-Forwarded-For/-Proto/-Host believed.
- */
-export function trustedProxy(event: H3Event): boolean {
-  const list = (process.env.NUXT_TRUSTED_PROXIES ?? '').split(',').map((s) => s.trim()).filter(Boolean)
-  if (!list.length) return false
-  const peer = (event.node.req.socket.remoteAddress ?? '').replace(/^::ffff:/, '')
-  return list.includes(peer)
+let proxies: { raw: string; list: TrustedProxies } | undefined
+/** NUXT_TRUSTED_PROXIES, parsed once (and again only if it changes). */
+function trustedProxies(): TrustedProxies {
+  const raw = process.env.NUXT_TRUSTED_PROXIES ?? ''
+  if (proxies?.raw !== raw) proxies = { raw, list: parseTrustedProxies(raw) }
+  return proxies.list
 }
 
+/**
+ * Whether the request came through a proxy we trust (NUXT_TRUSTED_PROXIES: comma-separated
+ * addresses or CIDR ranges, e.g. "127.0.0.1, 10.0.0.0/8"): only then are X-Forwarded-For/-Proto/-Host believed.
+ */
+export function trustedProxy(event: H3Event): boolean {
+  return trustedProxies().has(event.node.req.socket.remoteAddress ?? '')
+}
+
+/**
+ * The client's address for throttles, sign-in backoff and the audit log: the right-most
+ * X-Forwarded-For entry that is not a trusted proxy (see clientAddressFrom), an IPv6 address as its /64.
+ */
 export function clientIp(event: H3Event): string {
-  return getRequestIP(event, { xForwardedFor: trustedProxy(event) }) ?? 'unknown'
+  const address = clientAddressFrom(event.node.req.socket.remoteAddress ?? 'unknown', getRequestHeader(event, 'x-forwarded-for'), trustedProxies())
+  return throttleBucket(address)
 }

@@ -3,16 +3,20 @@ import type { Kysely } from 'kysely'
 import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
 import { nowIso, nowMs } from '../services/clock'
+import { LocalLimiter } from './localLimiter'
 
 /**
  * Limits abuse-prone requests per key (sign-up per address, seat holds per account, public routes
  * per address).
- * - SQLite (the embedded, one-process set-up): a sliding window kept in this process's memory.
+ * - SQLite (the embedded, one-process set-up): a sliding window kept in this process's memory
+ *   (LocalLimiter), for at most LOCAL_KEYS_MAX keys, the one used longest ago forgotten first. A key
+ *   takes about 200 bytes in normal use and at most a few kB (a hit in every 1/60 of its window).
  * - PostgreSQL (several instances): counted in the database (rate_limit_hits) with one atomic upsert
  *   per request, so every instance sees the same count; a sliding window estimated from the current
  *   and the previous fixed window.
  */
-const hits = new Map<string, number[]>()
+export const LOCAL_KEYS_MAX = 50_000
+const local = new LocalLimiter(LOCAL_KEYS_MAX)
 
 function refuse(event: H3Event, retryAfterSec: number): never {
   setResponseHeader(event, 'Retry-After', retryAfterSec)
@@ -23,13 +27,8 @@ export async function rateLimit(event: H3Event, key: string, limit: number, wind
   await dbReady()
   const db = useDb()
   if (isPostgres(db)) return sharedRateLimit(event, db, key, limit, windowMs)
-  const now = nowMs()
-  const recent = (hits.get(key) ?? []).filter((t) => t > now - windowMs)
-  if (recent.length >= limit) refuse(event, Math.ceil((recent[0]! + windowMs - now) / 1000))
-  recent.push(now)
-  hits.set(key, recent)
-  // Forget idle keys now and then so the map stays small.
-  if (hits.size > 10_000) for (const [k, v] of hits) if (!v.some((t) => t > now - windowMs)) hits.delete(k)
+  const retryAfterSec = local.hit(key, limit, windowMs, nowMs())
+  if (retryAfterSec !== null) refuse(event, retryAfterSec)
 }
 
 async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string, limit: number, windowMs: number): Promise<void> {

@@ -41,8 +41,14 @@ export const LocalQuery = z.object({
   deltaT: optionalNum(-50, 10000, 'deltaT'),
 })
 
+/**
+ * The path's sampling steps, seconds of UTC. A few fixed values, so that every path the public route
+ * can compute is one of a small, known set (and the cache can hold them all).
+ */
+export const PATH_STEPS_SEC = ['30', '60', '120', '300', '600', '900'] as const
+
 export const PathQuery = z.object({
-  step: z.coerce.number({ error: 'step must be a number' }).int('step must be whole seconds').min(10, 'step must be 10–3600 s').max(3600, 'step must be 10–3600 s').optional(),
+  step: z.enum(PATH_STEPS_SEC, { error: `step must be one of ${PATH_STEPS_SEC.join(', ')} (seconds)` }).transform(Number).optional(),
   deltaT: optionalNum(-50, 10000, 'deltaT'),
   wrap: z.enum(['split', 'unwrap']).optional(),
 })
