@@ -99,6 +99,9 @@ const ROWS: Row[] = [
   { method: 'POST', file: 'auth/login.post', path: () => '/api/auth/login', body: json({}), want: PUBLIC(400) },
   { method: 'POST', file: 'auth/register.post', path: () => '/api/auth/register', body: json({}), want: PUBLIC(400) },
   { method: 'POST', file: 'auth/verify-email.post', path: () => '/api/auth/verify-email', body: json({}), want: PUBLIC(400) },
+  // A reset request answers 202 for any address, known or not (each caller asks for its own, under the per-address limit).
+  { method: 'POST', file: 'auth/password-reset/index.post', path: () => '/api/auth/password-reset', body: (c) => ({ email: `roles-reset-${c}@umbrafield.test` }), want: PUBLIC(202) },
+  { method: 'POST', file: 'auth/password-reset/confirm.post', path: () => '/api/auth/password-reset/confirm', body: json({}), want: PUBLIC(400) },
   { method: 'POST', file: 'auth/confirmation.post', path: () => '/api/auth/confirmation', body: json({}), want: USER(200), note: 'every caller here is confirmed: "already confirmed"' },
 
   { method: 'GET', file: 'bookings/index.get', path: () => '/api/bookings', want: USER(200) },
@@ -122,6 +125,13 @@ const ROWS: Row[] = [
   { method: 'GET', file: 'health.get', path: () => '/api/health', want: PUBLIC(200) },
   { method: 'GET', file: 'me.get', path: () => '/api/me', want: USER(200) },
   { method: 'PATCH', file: 'me.patch', path: () => '/api/me', body: json({}), want: USER(200), note: 'an empty patch changes nothing' },
+  // Two-factor: anyone signed in may look at and start their own set-up; confirming or turning off needs a code.
+  { method: 'GET', file: 'me/totp/index.get', path: () => '/api/me/totp', want: USER(200) },
+  { method: 'POST', file: 'me/totp/index.post', path: () => '/api/me/totp', body: json({}), want: USER(200), note: 'a pending secret, not yet on' },
+  { method: 'POST', file: 'me/totp/confirm.post', path: () => '/api/me/totp/confirm', body: json({}), want: USER(400) },
+  { method: 'DELETE', file: 'me/totp/index.delete', path: () => '/api/me/totp', body: json({}), want: USER(400) },
+  { method: 'GET', file: 'settings/security.get', path: () => '/api/settings/security', want: ORGANISER_ONLY(200) },
+  { method: 'PATCH', file: 'settings/security.patch', path: () => '/api/settings/security', body: json({ requireStaffTotp: false }), want: ORGANISER_ONLY(200), note: 'the rule stays off' },
 
   { method: 'GET', file: 'outbox/index.get', path: () => '/api/outbox', want: ORGANISER_ONLY(200) },
   { method: 'POST', file: 'outbox/[id]/retry.post', path: () => `/api/outbox/${fx.outboxId}/retry`, body: json({}), want: ORGANISER_ONLY(200), note: 'a message marked failed in beforeAll' },
