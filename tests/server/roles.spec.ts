@@ -250,7 +250,8 @@ beforeAll(async () => {
   fx.spareSite = spare.body.id
 
   // A message that failed to send, for the retry row (the fake mail server delivers everything).
-  const msg = await db.selectFrom('outbox').select('id').orderBy('id').executeTakeFirstOrThrow()
+  // One without a one-time link: those cannot be retried once failed (their sealed link is cleared).
+  const msg = await db.selectFrom('outbox').select('id').where('sealed_secret', 'is', null).orderBy('id').executeTakeFirstOrThrow()
   await db.updateTable('outbox').set({ status: 'failed', last_error: 'roles matrix: marked failed' }).where('id', '=', msg.id).execute()
   fx.outboxId = msg.id
 }, 120_000)
