@@ -1,5 +1,5 @@
 import { EmailUnconfirmedError, HoldExistsError, SoldOutError, WaitlistExistsError } from '../services/bookings'
-import { BookingStateError, RefundLimitError } from '../services/money'
+import { BookingStateError, CheckoutPendingError, RefundLimitError } from '../services/money'
 import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
@@ -19,6 +19,7 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof WaitlistExistsError) return createError({ statusCode: 409, statusMessage: 'Already waiting', message: e.message, data: { code: 'waitlist_exists' } })
   if (e instanceof EmailUnconfirmedError) return createError({ statusCode: 403, statusMessage: 'E-mail not confirmed', message: e.message, data: { code: 'email_unconfirmed' } })
   if (e instanceof RefundLimitError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { amountMinor: e.message } } })
+  if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   return null
 }
