@@ -110,11 +110,15 @@ describe(`a one-seat deposit never confirms more seats (${TEST_DB})`, () => {
       const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie })
       expect(hold.status).toBe(201)
       const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie })
+      // Webhooks wait at the fake until the payment is through, then go out while the change runs:
+      // the change may come before the payment, between payment and webhook, or after the webhook.
       // Rounds alternate which side starts first, a few milliseconds apart.
       const wait = (ms: number) => new Promise((r) => setTimeout(r, ms))
       const [payDelay, changeDelay] = i % 2 ? [(i % 4) * 4, 0] : [0, (i % 4) * 4]
+      await fake('/_fake/webhooks/pause', {})
       const [, change] = await Promise.all([
-        wait(payDelay).then(() => fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })),
+        wait(payDelay).then(() => fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' }))
+          .finally(() => fake('/_fake/webhooks/resume', {})),
         wait(changeDelay).then(() => api(`/api/bookings/${hold.body.id}`, { method: 'PATCH', body: { seats: 3 }, cookie })),
       ])
       expect([200, 409]).toContain(change.status)
