@@ -45,6 +45,7 @@ export default defineConfig({
       PORT: String(PORT),
       NUXT_DB_PATH: join(dataDir, 'e2e.sqlite'),
       NUXT_SEED: 'demo',
+      UMBRAFIELD_ALLOW_DEMO_SEED: '1',
       NUXT_SESSION_PASSWORD: 'e2e-session-password-that-is-long-enough-0123456789',
       NUXT_PUBLIC_APP_URL: `http://localhost:${PORT}`,
       // Date-dependent tests (the refund tier) run on a fixed date; the browser clock is fixed per test.

@@ -99,7 +99,7 @@ async function startApp(): Promise<{ base: string; stop: () => void }> {
   const port = 3900 + Math.floor(Math.random() * 90)
   const dir = mkdtempSync(join(tmpdir(), 'umbrafield-bench-'))
   const child = spawn(process.execPath, ['.output/server/index.mjs'], {
-    env: { ...process.env, PORT: String(port), NUXT_DB_PATH: join(dir, 'bench.sqlite'), NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345' },
+    env: { ...process.env, PORT: String(port), NUXT_DB_PATH: join(dir, 'bench.sqlite'), NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345' },
     stdio: 'ignore',
   })
   const base = `http://127.0.0.1:${port}`
@@ -279,7 +279,7 @@ async function cluster() {
   const children: ReturnType<typeof spawn>[] = []
   const base = 3900 + Math.floor(Math.random() * 80)
   const env = {
-    ...process.env, DATABASE_URL: url, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345',
+    ...process.env, DATABASE_URL: url, NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1', NUXT_SESSION_PASSWORD: 'bench-session-password-that-is-long-enough-012345',
     NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${base}`, UMBRAFIELD_SIGNUP_LIMIT: '100000', UMBRAFIELD_HOLD_LIMIT: '100000', NUXT_BACKUPS: 'off',
     // The racers come through a trusted proxy from their own addresses, as a real crowd would.
     NUXT_TRUSTED_PROXIES: '127.0.0.1',

@@ -75,7 +75,7 @@ for (const f of fakes) {
 }
 const appEnv = {
   ...fakeEnv,
-  NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+  NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
   ...(DATABASE_URL ? { DATABASE_URL } : {}),
   // The demo's accounts share a published password: it listens on this machine only.
   NITRO_HOST: process.env.HOST || '127.0.0.1',

@@ -1,4 +1,4 @@
-import { mkdirSync } from 'node:fs'
+import { chmodSync, closeSync, mkdirSync, openSync } from 'node:fs'
 import { dirname, resolve } from 'node:path'
 import SQLite from 'better-sqlite3'
 import { CompiledQuery, Kysely, PostgresDialect, sql, SqliteDialect, SqliteDriver, type DatabaseConnection, type Migration } from 'kysely'
@@ -98,7 +98,12 @@ export async function migrateToLatest(db: Kysely<Database>, set: Record<string, 
 export async function backupDatabase(db: Kysely<Database>, file: string): Promise<string> {
   if (isPostgres(db)) throw new Error('on PostgreSQL, back up with pg_dump (see the README, "Running several instances")')
   const target = resolve(file)
-  mkdirSync(dirname(target), { recursive: true })
+  // A backup holds every account and booking: a folder made here is the owner's alone (0700).
+  // (A folder that already exists is left as it is: it may be shared, like /tmp.) The file is
+  // created empty with mode 0600 first, which VACUUM INTO accepts, so it is never readable by others.
+  mkdirSync(dirname(target), { recursive: true, mode: 0o700 })
+  closeSync(openSync(target, 'wx', 0o600))
   await sql`vacuum into ${target}`.execute(db)
+  chmodSync(target, 0o600)
   return target
 }

@@ -1,5 +1,5 @@
 import { housekeeping } from '../services/bookings'
-import { withLease } from '../services/leases'
+import { singleFlight, withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
 import { pruneRateLimits } from '../utils/rateLimit'
 
@@ -12,12 +12,14 @@ const DAY_MS = 24 * 3600_000
 export default defineNitroPlugin((nitro) => {
   const everyMs = Number(process.env.UMBRAFIELD_HOUSEKEEPING_MS || 30_000)
   const ledgerEveryMs = Number(process.env.UMBRAFIELD_LEDGER_RECONCILE_MS || DAY_MS)
-  const tick = async () => {
+  // A run still going (many refunds, a slow Stripe) makes the next tick skip, never overlap it.
+  const tick = singleFlight(async () => {
     try {
       await dbReady()
       const db = useDb()
-      // With several instances on one database, the one holding the lease does the tick; the lease
-      // outlives two ticks, so a crashed holder is replaced within a minute or so.
+      // With several instances on one database, the one holding the lease does the tick. The lease
+      // lasts two ticks and is renewed while a run goes on (however long its Stripe calls take), so
+      // no other instance starts alongside; a crashed holder is replaced within a minute or so.
       await withLease(db, 'housekeeping', everyMs * 2, async () => {
         await housekeeping(db, bookingConfig())
         await pruneRateLimits(db)
@@ -32,7 +34,7 @@ export default defineNitroPlugin((nitro) => {
     } catch (e) {
       console.error('[umbrafield] housekeeping:', (e as Error).message)
     }
-  }
+  })
   const timer = setInterval(tick, everyMs)
   timer.unref()
   nitro.hooks.hook('close', () => clearInterval(timer))

@@ -1,15 +1,15 @@
 import type { Kysely, Transaction } from 'kysely'
 import type Stripe from 'stripe'
-import { refundPctOn } from '../../shared/schemas/trips'
+import { MAX_SEATS_PER_BOOKING, refundPctOn } from '../../shared/schemas/trips'
 import { businessDate, nowMs } from './clock'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { isPostgres } from '../database/dialect'
 import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
-import { BookingStateError, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
+import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
-import { getTripRow, lockTripRow, seatUse, tiersOf } from './trips'
+import { getTripRow, lockTripRow, seatUse, tiersOf, TripRuleError } from './trips'
 
 type Db = Kysely<Database> | Transaction<Database>
 export type { BookingRow }
@@ -44,6 +44,11 @@ export async function releaseLapsed(trx: Db, tripId: number, cfg: BookingConfig)
   if (Number(holds.numUpdatedRows) + Number(offers.numUpdatedRows) > 0) await offerWaitlist(trx, tripId, cfg)
 }
 
+/** Whether an account may hold seats (and so be offered them): a traveller with a confirmed address. */
+export function mayHoldSeats(u: Pick<User, 'role' | 'email_confirmed_at'>): boolean {
+  return u.role === 'traveller' && !!u.email_confirmed_at
+}
+
 /** Offers free seats to the waitlist, first come first served, each offer for a limited time. */
 export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig): Promise<number[]> {
   const trip = await trx.selectFrom('trips').select('seats').where('id', '=', tripId).executeTakeFirstOrThrow()
@@ -51,9 +56,14 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
   let free = trip.seats - use.taken - use.offered
   const offered: number[] = []
   if (free <= 0) return offered
-  const waiting = await trx.selectFrom('waitlist').selectAll().where('trip_id', '=', tripId).where('status', '=', 'waiting').orderBy('id').execute()
+  const waiting = await trx.selectFrom('waitlist').innerJoin('users', 'users.id', 'waitlist.user_id')
+    .select(['waitlist.id', 'waitlist.seats', 'users.role', 'users.email_confirmed_at'])
+    .where('waitlist.trip_id', '=', tripId).where('waitlist.status', '=', 'waiting').orderBy('waitlist.id').execute()
   for (const w of waiting) {
     if (w.seats > free) continue
+    // Seats are offered only to someone who could hold them now: a confirmed address and still a
+    // traveller (an account promoted to guide or organiser since joining is skipped, not offered).
+    if (!mayHoldSeats(w)) continue
     await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(nowMs() + cfg.offerHours * 3600_000) }).where('id', '=', w.id).execute()
     await mailWaitlistOffer(trx, w.id, cfg.appUrl)
     free -= w.seats
@@ -124,14 +134,21 @@ async function holdGate<T>(db: Kysely<Database>, run: () => Promise<T>): Promise
   }
 }
 
-/** Changes the seat count of the caller's active hold (seats re-checked, deposit and price follow). */
+/**
+ * Changes the seat count of the caller's active hold (seats re-checked, deposit and price follow).
+ * Under the trip lock, any checkout opened for the old amount is first expired at Stripe; one that is
+ * already paid (not yet applied) cannot be, and then nothing changes (CheckoutPendingError, 409).
+ */
 export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | null, user: User, bookingId: number, seats: number, cfg: BookingConfig) {
   return db.transaction().execute(async (trx) => {
-    const b = await trx.selectFrom('bookings').selectAll().where('id', '=', bookingId).where('user_id', '=', user.id).executeTakeFirst()
-    if (!b) throw new NotFoundError('No such booking')
+    const ref = await trx.selectFrom('bookings').select(['id', 'trip_id']).where('id', '=', bookingId).where('user_id', '=', user.id).executeTakeFirst()
+    if (!ref) throw new NotFoundError('No such booking')
+    const trip = (await lockTripRow(trx, ref.trip_id))!
+    // Read after the lock: a payment applied meanwhile is seen here.
+    const b = await trx.selectFrom('bookings').selectAll().where('id', '=', bookingId).executeTakeFirstOrThrow()
     if (b.status !== 'held' || !b.hold_expires_at || b.hold_expires_at <= iso()) throw new BookingStateError('Only an active hold can change its seats')
     if (b.paid_minor > 0) throw new BookingStateError('A payment is under way on this hold')
-    const trip = (await lockTripRow(trx, b.trip_id))!
+    await expireCheckoutsOrRefuse(trx, stripe, b.id, 'superseded: the seat count changed')
     await releaseLapsed(trx, b.trip_id, cfg)
     const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), user.id)
     const available = trip.seats - (use.taken - b.seats) - use.offered
@@ -139,17 +156,20 @@ export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | nul
     await trx.updateTable('bookings').set({ seats, price_minor: seats * trip.price_minor, deposit_minor: seats * trip.deposit_minor, updated_at: iso() }).where('id', '=', b.id).execute()
     await audit(trx, { action: 'booking_hold_change', actorUserId: user.id, detail: { bookingId: b.id, from: b.seats, to: seats } })
     return { id: b.id, status: 'held' as const, seats }
-  }).then(async (r) => {
-    // Any checkout opened for the old amount is expired: its amount is wrong now.
-    await expireOpenCheckouts(db, stripe, bookingId, 'superseded: the seat count changed')
-    return r
   })
 }
 
+/**
+ * Joins the waitlist: like a hold, only with a confirmed address, and for no more seats than one hold
+ * may take (the per-booking cap, and never more than the trip has).
+ */
 export async function joinWaitlist(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
+  if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
   return db.transaction().execute(async (trx) => {
     const trip = await lockTripRow(trx, tripId)
     if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
+    const cap = Math.min(MAX_SEATS_PER_BOOKING, trip.seats)
+    if (seats > cap) throw new TripRuleError('seats', `at most ${cap} seat${cap > 1 ? 's' : ''} per booking on this trip`)
     await releaseLapsed(trx, tripId, cfg)
     const already = await trx.selectFrom('waitlist').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', 'in', ['waiting', 'offered']).executeTakeFirst()
     if (already) throw new WaitlistExistsError()

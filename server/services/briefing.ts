@@ -15,15 +15,15 @@ import { getTripRow, isTripGuide } from './trips'
 import { nowIso } from './clock'
 
 /**
- * Who may read a trip's briefing: organisers, the trip's guides, and travellers with a live booking
- * (held or confirmed) on it. Anyone else gets the same 404 as for a trip that does not exist.
+ * Who may read a trip's briefing: organisers, the trip's guides, and travellers with a confirmed
+ * booking on it (a hold alone, paid nothing, does not open the meeting point and the plan). Anyone else gets the same 404 as for a trip that does not exist.
  */
 export async function assertBriefingAccess(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
   if (user.role === 'organiser') return trip
   if (user.role === 'guide' && (await isTripGuide(db, tripId, user.id))) return trip
   const booked = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id)
-    .where('status', 'in', ['held', 'confirmed']).executeTakeFirst()
+    .where('status', '=', 'confirmed').executeTakeFirst()
   if (trip.status === 'published' && booked) return trip
   throw new NotFoundError('No such trip')
 }

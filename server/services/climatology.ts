@@ -166,8 +166,18 @@ export async function storeDataset(db: Kysely<Database>, user: User | null, meta
   })
 }
 
-export async function listDatasets(db: Kysely<Database>) {
-  const rows = await db.selectFrom('climatology_datasets').selectAll().orderBy('id').execute()
+/**
+ * The datasets the caller may see: all of them for organisers; for a guide, only those chosen by a
+ * planning workspace of a trip they guide (the same reach as their workspaces).
+ */
+export async function listDatasets(db: Kysely<Database>, user: Pick<User, 'id' | 'role'>) {
+  let q = db.selectFrom('climatology_datasets').selectAll().orderBy('id')
+  if (user.role !== 'organiser') {
+    q = q.where('id', 'in', db.selectFrom('workspaces').innerJoin('trips', 'trips.workspace_id', 'workspaces.id')
+      .innerJoin('trip_guides', 'trip_guides.trip_id', 'trips.id').select('workspaces.climatology_id')
+      .where('trip_guides.user_id', '=', user.id).where('workspaces.climatology_id', 'is not', null).$narrowType<{ climatology_id: number }>())
+  }
+  const rows = await q.execute()
   const months = await db.selectFrom('climatology_grids').select(['dataset_id', 'month']).execute()
   return rows.map((d) => ({
     id: d.id, name: d.name, source: d.source, licence: d.licence, years: d.years, timeOfDay: d.time_of_day, demo: !!d.demo,

@@ -1,4 +1,4 @@
-import Papa from 'papaparse'
+import { toSafeCsv } from './csv'
 import type { FeatureCollection } from '../../shared/eclipse/path'
 import type { SiteOut } from './planning'
 
@@ -68,12 +68,12 @@ ${wpts.join('\n')}
 
 /** CSV of sites and their metrics (header row; numbers with a dot). */
 export function toCsv(sites: SiteOut[]): string {
-  return Papa.unparse(sites.map((s) => ({
+  return toSafeCsv(sites.map((s) => ({
     name: s.name, lat: s.lat, lon: s.lon, elevation_m: s.elevationM, type: s.metrics.type,
     centreline_distance_km: s.metrics.centrelineDistanceKm, half_width_fraction: s.metrics.halfWidthFraction,
     duration_sec: s.metrics.durationSec, magnitude: s.metrics.magnitude, c2_utc: s.metrics.c2Utc, c2_local: s.metrics.c2Local,
     zone: s.metrics.zone, sun_altitude_deg: s.metrics.sunAltitudeDeg, sun_azimuth_deg: s.metrics.sunAzimuthDeg,
     cloud_pct: s.metrics.cloudPct, p_clear: s.metrics.pClear, expected_sec: s.metrics.expectedSec, cloud_source: s.metrics.cloudSource,
     road_access: s.roadAccess, capacity: s.capacity, crosses_border: s.crossesBorder, notes: s.notes,
-  })), { escapeFormulae: true }) // a name like "=HYPERLINK(…)" stays text in a spreadsheet
+  }))) // a name like "=HYPERLINK(…)" stays text in a spreadsheet
 }

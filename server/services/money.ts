@@ -31,6 +31,10 @@ const iso = (ms = nowMs()) => new Date(ms).toISOString()
 
 export class BookingStateError extends Error {}
 export class RefundLimitError extends Error {}
+/** A checkout on the booking is already paid at Stripe but not yet applied here: the booking may not change now. */
+export class CheckoutPendingError extends Error {
+  constructor() { super('A payment on this booking has just gone through: wait a moment, reload, then try again') }
+}
 
 export interface MoneyConfig { holdMinutes: number; offerHours: number; appUrl: string }
 
@@ -118,6 +122,32 @@ export async function expireOpenCheckouts(db: Kysely<Database>, stripe: Stripe |
   }
 }
 
+async function sessionStatusAfterExpiry(stripe: Stripe, sessionId: string): Promise<string | null> {
+  try {
+    return (await stripe.checkout.sessions.expire(sessionId)).status
+  } catch {
+    // Stripe refuses to expire a session that is no longer open: ask what it is now.
+    return (await stripe.checkout.sessions.retrieve(sessionId)).status
+  }
+}
+
+/**
+ * Expires, at Stripe, every checkout still pending on a booking, before the booking's amounts change.
+ * Call it inside the transaction that holds the trip lock, so no payment of this trip is applied
+ * meanwhile. A session that is already complete (paid, webhook not yet applied) cannot be expired:
+ * then nothing may change, and CheckoutPendingError says so.
+ */
+export async function expireCheckoutsOrRefuse(trx: Db, stripe: Stripe | null, bookingId: number, why: string) {
+  const open = await trx.selectFrom('payments').select(['id', 'checkout_session_id']).where('booking_id', '=', bookingId)
+    .where('status', '=', 'pending').where('checkout_session_id', 'is not', null).execute()
+  for (const p of open) {
+    // Without Stripe configured no session could have been paid; a stray payment would still be refunded.
+    const status = stripe ? await sessionStatusAfterExpiry(stripe, p.checkout_session_id!) : null
+    if (status === 'complete') throw new CheckoutPendingError()
+    await trx.updateTable('payments').set({ status: 'failed', note: why }).where('id', '=', p.id).where('status', '=', 'pending').execute()
+  }
+}
+
 /** What may still be refunded of the money applied to a booking: paid − every (non-stray) refund already asked for. */
 export async function refundableOf(trx: Db, b: Pick<BookingRow, 'id' | 'paid_minor'>): Promise<number> {
   const asked = await trx.selectFrom('refunds').select('amount_minor').where('booking_id', '=', b.id).where('stray', '=', 0).execute()
@@ -179,6 +209,12 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
   const stray = async (amount: number, why: string) => {
     await requestRefund(trx, b.id, amount, `automatic: ${why}`, null, p.id)
     await audit(trx, { action: 'payment_stray', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: amount, why } })
+  }
+  // A deposit counts only when it covers the deposit for the seats the booking holds NOW: a checkout
+  // opened for one seat never confirms three (the seat count may have changed after it was opened).
+  if (p.kind === 'deposit' && (b.status === 'held' || b.status === 'expired') && b.paid_minor + p.amount_minor < b.deposit_minor) {
+    await stray(p.amount_minor, `paid ${p.amount_minor} against a deposit of ${b.deposit_minor} for ${b.seats} seat${b.seats > 1 ? 's' : ''}`)
+    return { applied: 0, stray: p.amount_minor }
   }
   if (p.kind === 'deposit' && (b.status === 'held' || b.status === 'expired')) {
     const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), b.user_id)

@@ -65,7 +65,7 @@ export const OUTBOX = {
 }
 
 /**
- * Sends what is due, one message at a time: claim (queued → sending), send, and mark sent only
+ * Sends what is due (at most `limit`), one message at a time: claim (queued → sending), send, and mark sent only
  * after the SMTP server accepted it. Failures retry with exponential backoff, then give up as failed.
  */
 export async function processOutbox(db: Kysely<Database>, transport: Transporter, from: string, limit = 20): Promise<{ sent: number; failed: number }> {
@@ -73,30 +73,36 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
   await db.updateTable('outbox').set({ status: 'queued', sending_since: null })
     .where('status', '=', 'sending').where('sending_since', '<', new Date(now.getTime() - OUTBOX.stuckAfterMs).toISOString()).execute()
   const dueQuery = (q: Db) => q.selectFrom('outbox').selectAll().where('status', '=', 'queued').where('next_attempt_at', '<=', now.toISOString())
-    .orderBy('id').limit(limit)
-  let due: Awaited<ReturnType<ReturnType<typeof dueQuery>['execute']>>
-  if (isPostgres(db)) {
-    // PostgreSQL, several instances: claim a batch in one transaction with FOR UPDATE SKIP LOCKED, so
-    // two workers never pick the same message and neither waits on the other's rows.
-    due = await db.transaction().execute(async (trx) => {
-      const rows = await dueQuery(trx).forUpdate().skipLocked().execute()
-      if (rows.length) {
-        await trx.updateTable('outbox').set({ status: 'sending', sending_since: nowIso() }).where('id', 'in', rows.map((r) => r.id)).execute()
-      }
-      return rows
-    })
-  } else {
-    // SQLite: one row at a time with a conditional update (queued → sending); a row another worker
-    // claimed first is skipped.
-    due = []
-    for (const m of await dueQuery(db).execute()) {
+    .orderBy('id').limit(1)
+  /**
+   * Claims the next due message (queued → sending), stamping sending_since at this moment, just
+   * before it is sent. Claiming one at a time (not a batch up front) keeps the stamp honest: with a
+   * slow SMTP server, the last message of a batch stamped at its start would look stuck and be sent
+   * again by another worker while this one is still getting to it.
+   */
+  const claimNext = async () => {
+    if (isPostgres(db)) {
+      // Several instances: FOR UPDATE SKIP LOCKED, so two workers never pick the same message and
+      // neither waits on the other's row.
+      return db.transaction().execute(async (trx) => {
+        const m = await dueQuery(trx).forUpdate().skipLocked().executeTakeFirst()
+        if (m) await trx.updateTable('outbox').set({ status: 'sending', sending_since: nowIso() }).where('id', '=', m.id).execute()
+        return m
+      })
+    }
+    // SQLite: a conditional update (queued → sending); a row another worker claimed first is skipped.
+    for (;;) {
+      const m = await dueQuery(db).executeTakeFirst()
+      if (!m) return undefined
       const claim = await db.updateTable('outbox').set({ status: 'sending', sending_since: nowIso() })
         .where('id', '=', m.id).where('status', '=', 'queued').executeTakeFirst()
-      if (claim.numUpdatedRows) due.push(m)
+      if (claim.numUpdatedRows) return m
     }
   }
   let sent = 0, failed = 0
-  for (const m of due) {
+  for (let n = 0; n < limit; n++) {
+    const m = await claimNext()
+    if (!m) break
     let bodies: { html: string; text: string }
     try {
       bodies = withSecret(m)

@@ -1,6 +1,6 @@
 import type { Kysely } from 'kysely'
-import Papa from 'papaparse'
 import type { Database, User } from '../database/schema'
+import { toSafeCsv } from './csv'
 import { dueOf } from './dues'
 import { NotFoundError } from './planning'
 import { getTripRow, isTripGuide, seatUse } from './trips'
@@ -29,10 +29,10 @@ export async function tripBookings(db: Kysely<Database>, tripId: number) {
 
 export async function tripBookingsCsv(db: Kysely<Database>, tripId: number): Promise<string> {
   const t = await tripBookings(db, tripId)
-  return Papa.unparse(t.data.map((b) => ({
+  return toSafeCsv(t.data.map((b) => ({
     booking_id: b.id, name: b.name, email: b.email, seats: b.seats, status: b.status, currency: b.currency,
     price_minor: b.priceMinor, paid_minor: b.paidMinor, refunded_minor: b.refundedMinor, due_now_minor: b.dueMinor, balance_minor: b.balanceMinor, created_at: b.createdAt,
-  })), { escapeFormulae: true }) // traveller names like "=HYPERLINK(…)" stay text in a spreadsheet
+  }))) // traveller names like "=HYPERLINK(…)" stay text in a spreadsheet
 }
 
 /** Names and seats of confirmed participants, for organisers and the trip's own guides. */

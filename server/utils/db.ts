@@ -18,12 +18,20 @@ export function useDb(): Kysely<Database> {
 
 /**
  * The demo's accounts share a published password: seeding them is refused unless the app's public
- * URL is local, or the operator says so explicitly (NUXT_ALLOW_DEMO_SEED=yes, e.g. a staging host).
+ * URL is local and this is not a production build, or the operator says so explicitly
+ * (UMBRAFIELD_ALLOW_DEMO_SEED=1; the older NUXT_ALLOW_DEMO_SEED=yes still counts).
  */
-export function assertDemoSeedAllowed(appUrl: string) {
+export function assertDemoSeedAllowed(appUrl: string, nodeEnv = process.env.NODE_ENV) {
+  const allowed = process.env.UMBRAFIELD_ALLOW_DEMO_SEED === '1' || process.env.NUXT_ALLOW_DEMO_SEED === 'yes'
+  if (allowed) return
+  // A production build (the built app always is one) seeds the demo only when told to, even on a
+  // local address: a production server behind a proxy also sees itself as localhost.
+  if (nodeEnv === 'production') {
+    throw new Error('refusing to seed demo data (published passwords) in production (NODE_ENV=production). Set UMBRAFIELD_ALLOW_DEMO_SEED=1 to do it anyway, e.g. for the local demo or tests.')
+  }
   const local = /^https?:\/\/(localhost|127\.0\.0\.1|\[::1\])(:\d+)?(\/|$)/.test(appUrl)
-  if (!local && process.env.NUXT_ALLOW_DEMO_SEED !== 'yes') {
-    throw new Error(`refusing to seed demo data (published passwords) for ${appUrl}: it is not a local address. Set NUXT_ALLOW_DEMO_SEED=yes to do it anyway.`)
+  if (!local) {
+    throw new Error(`refusing to seed demo data (published passwords) for ${appUrl}: it is not a local address. Set UMBRAFIELD_ALLOW_DEMO_SEED=1 to do it anyway.`)
   }
 }
 

@@ -1,5 +1,5 @@
 import { EmailUnconfirmedError, HoldExistsError, SoldOutError, WaitlistExistsError } from '../services/bookings'
-import { BookingStateError, RefundLimitError } from '../services/money'
+import { BookingStateError, CheckoutPendingError, RefundLimitError } from '../services/money'
 import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
@@ -23,6 +23,7 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof TotpError) {
     return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
   }
+  if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   return null
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { PLAIN_TEXT, plainTextMessage } from './text'
 
 export const ROLE_VALUES = ['traveller', 'guide', 'organiser'] as const
 export const RoleSchema = z.enum(ROLE_VALUES, { error: 'Choose traveller, guide or organiser' })
@@ -18,14 +19,14 @@ export type LoginInput = z.infer<typeof LoginBody>
 const newPassword = z.string({ error: 'Use at least 10 characters' }).min(10, 'Use at least 10 characters').max(200)
 
 export const RegisterBody = z.object({
-  name: z.string({ error: 'Enter your name' }).trim().min(1, 'Enter your name').max(120),
+  name: z.string({ error: 'Enter your name' }).trim().min(1, 'Enter your name').max(120).regex(PLAIN_TEXT, plainTextMessage('name')),
   email,
   password: newPassword,
 })
 export type RegisterInput = z.infer<typeof RegisterBody>
 
 export const InviteBody = z.object({
-  name: z.string({ error: 'Enter a name' }).trim().min(1, 'Enter a name').max(120),
+  name: z.string({ error: 'Enter a name' }).trim().min(1, 'Enter a name').max(120).regex(PLAIN_TEXT, plainTextMessage('name')),
   email,
   role: z.enum(['guide', 'organiser'], { error: 'Choose guide or organiser' }),
 })
@@ -33,7 +34,7 @@ export const InviteBody = z.object({
 export const RolePatch = z.object({ role: RoleSchema })
 
 export const AccountPatch = z.object({
-  name: z.string().trim().min(1, 'Enter your name').max(120).optional(),
+  name: z.string().trim().min(1, 'Enter your name').max(120).regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
   currentPassword: z.string().max(200).optional(),
   newPassword: z.string().min(10, 'Use at least 10 characters').max(200).optional(),
 }).refine((v) => !v.newPassword || !!v.currentPassword, { message: 'Enter your current password', path: ['currentPassword'] })

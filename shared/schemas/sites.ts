@@ -1,11 +1,12 @@
 import { z } from 'zod'
+import { PLAIN_TEXT, plainTextMessage } from './text'
 
 export const ROAD_ACCESS_VALUES = ['paved', 'gravel', 'track', 'none', 'unknown'] as const
 
 const lat = z.number({ error: 'lat must be a number' }).min(-90, 'lat must be −90 to 90').max(90, 'lat must be −90 to 90')
 const lon = z.number({ error: 'lon must be a number' }).min(-180, 'lon must be −180 to 180').max(180, 'lon must be −180 to 180')
 const elevationM = z.number({ error: 'elevationM must be a number' }).min(-500, 'elevationM must be −500 to 9000 m').max(9000, 'elevationM must be −500 to 9000 m')
-const name = z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters')
+const name = z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters').regex(PLAIN_TEXT, plainTextMessage('name'))
 
 export const SiteCreate = z.object({
   name,
@@ -31,11 +32,11 @@ export type SitePatchInput = z.infer<typeof SitePatch>
 
 export const WorkspaceCreate = z.object({
   eclipseId: z.string({ error: 'eclipseId is required' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'eclipseId must be a date, YYYY-MM-DD'),
-  name: z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120),
+  name: z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120).regex(PLAIN_TEXT, plainTextMessage('name')),
 })
 
 export const WorkspacePatch = z.object({
-  name: z.string().trim().min(1).max(120).optional(),
+  name: z.string().trim().min(1).max(120).regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
   climatologyId: z.number().int().positive().nullable().optional(),
 })
 

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { PLAIN_TEXT, plainTextMessage } from './text'
 
 const date = (f: string) => z.string({ error: `${f} is required (YYYY-MM-DD)` }).regex(/^\d{4}-\d{2}-\d{2}$/, `${f} must be YYYY-MM-DD`)
 const minor = (f: string) => z.number({ error: `${f} must be a whole number of minor units` }).int(`${f} must be a whole number of minor units`).min(0, `${f} cannot be negative`).max(100_000_000)
@@ -13,7 +14,7 @@ export const TripCreate = z.object({
   workspaceId: z.number({ error: 'workspaceId is required' }).int().positive(),
   primarySiteId: z.number({ error: 'primarySiteId is required' }).int().positive(),
   backupSiteIds: z.array(z.number().int().positive()).max(10).default([]),
-  title: z.string({ error: 'title is required' }).trim().min(3, 'title is required').max(140),
+  title: z.string({ error: 'title is required' }).trim().min(3, 'title is required').max(140).regex(PLAIN_TEXT, plainTextMessage('title')),
   description: z.string().max(5000).default(''),
   startDate: date('startDate'),
   endDate: date('endDate'),
@@ -25,7 +26,7 @@ export const TripCreate = z.object({
   cancellationTiers: z.array(CancellationTier).max(6).default([]),
   minGroupSize: z.number().int().min(1).max(1000).default(1),
   meetingPoint: z.object({
-    name: z.string({ error: 'meeting point name is required' }).trim().min(1, 'meeting point name is required').max(200),
+    name: z.string({ error: 'meeting point name is required' }).trim().min(1, 'meeting point name is required').max(200).regex(PLAIN_TEXT, plainTextMessage('meeting point name')),
     lat: z.number().min(-90, 'lat must be −90 to 90').max(90, 'lat must be −90 to 90'),
     lon: z.number().min(-180, 'lon must be −180 to 180').max(180, 'lon must be −180 to 180'),
     time: z.string({ error: 'meeting time is required' }).datetime({ offset: true, message: 'meeting time must be ISO 8601 with a UTC offset, e.g. 2027-08-02T06:30:00+03:00' }),
@@ -42,8 +43,11 @@ export const TripCreate = z.object({
 })
 export type TripCreateInput = z.infer<typeof TripCreate>
 
+/** The most seats one hold (and one waitlist entry) may take. */
+export const MAX_SEATS_PER_BOOKING = 20
+
 export const BookingCreate = z.object({
-  seats: z.number({ error: 'seats must be a whole number' }).int('seats must be a whole number').min(1, 'at least 1 seat').max(20, 'at most 20 seats per booking'),
+  seats: z.number({ error: 'seats must be a whole number' }).int('seats must be a whole number').min(1, 'at least 1 seat').max(MAX_SEATS_PER_BOOKING, `at most ${MAX_SEATS_PER_BOOKING} seats per booking`),
 })
 
 /** The default "what to bring" list of a trip's briefing (common practice of eclipse guides). */

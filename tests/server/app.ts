@@ -54,12 +54,15 @@ export async function useApp(env: Record<string, string> = {}) {
       NUXT_DB_PATH: join(dir, 'test.sqlite'),
       ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}),
       NUXT_SEED: 'demo',
+      // The built app is a production build: demo seeding must be allowed explicitly.
+      UMBRAFIELD_ALLOW_DEMO_SEED: '1',
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
       NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${TEST_APP_PORT}`,
       UMBRAFIELD_HOUSEKEEPING_MS: '1000',
       // Suites make many holds and sign-ups from one address; the limits themselves are tested in holds.spec.ts.
       UMBRAFIELD_HOLD_LIMIT: '1000',
       UMBRAFIELD_SIGNUP_LIMIT: '1000',
+      UMBRAFIELD_WAITLIST_LIMIT: '1000',
       UMBRAFIELD_REFUND_RETRY_MS: '500',
       // Invitations and links arrive by e-mail: the worker looks at the outbox often.
       UMBRAFIELD_MAIL_POLL_MS: '400',
