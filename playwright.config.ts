@@ -20,7 +20,8 @@ export default defineConfig({
   testDir: 'e2e',
   timeout: 60_000,
   fullyParallel: false,
-  forbidOnly: !!process.env.CI,
+  // A stray test.only would quietly run one test and pass: refused everywhere, not only in CI.
+  forbidOnly: true,
   workers: 1,
   reporter: [['list']],
   use: {
