@@ -1,5 +1,5 @@
 import { ridgeTiff } from '../server/database/seed/demoTerrain'
-import { expect, hydrated, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 // Runs on a workspace of its own, so the other browser tests keep the demo workspace as seeded.
 test('an organiser finds the best ground near Luxor, adds it, and a site behind a ridge is flagged at C2', async ({ page }) => {
@@ -12,8 +12,7 @@ test('an organiser finds the best ground near Luxor, adds it, and a site behind 
     expect((await page.request.post(`/api/workspaces/${ws.id}/sites`, { data: s })).status()).toBe(201)
   }
 
-  await page.goto(`/plan/${ws.id}`)
-  await hydrated(page)
+  await gotoHydrated(page, `/plan/${ws.id}`)
   await expect(page.locator('.maplibregl-canvas')).toBeVisible()
 
   // The surface: legend, the best cell along the Nile, and a hover read-out.

@@ -1,10 +1,10 @@
 import { readFileSync } from 'node:fs'
-import { expect, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test.describe('organiser planning page', () => {
   test.beforeEach(async ({ page }) => {
     await signInAs(page, 'organiser@umbrafield.test')
-    await page.goto('/plan')
+    await gotoHydrated(page, '/plan')
     await page.getByRole('link', { name: /Strait of Gibraltar/ }).click()
     await expect(page.getByRole('heading', { name: /Strait of Gibraltar/ })).toBeVisible()
     await expect(page.locator('.maplibregl-canvas')).toBeVisible()
@@ -90,7 +90,7 @@ test.describe('organiser planning page', () => {
 
 test('a guide sees the plan but cannot edit it', async ({ page }) => {
   await signInAs(page, 'guide@umbrafield.test')
-  await page.goto('/plan/1')
+  await gotoHydrated(page, '/plan/1')
   await expect(page.getByRole('table', { name: 'Site comparison' })).toBeVisible()
   await expect(page.getByRole('heading', { name: 'Add candidate sites' })).toHaveCount(0)
 })
