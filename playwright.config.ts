@@ -19,6 +19,8 @@ const fakes = fakeServices({ appPort: PORT })
 export default defineConfig({
   testDir: 'e2e',
   timeout: 60_000,
+  // Two cores shared with builds and other suites: a page can take longer than the default 5 s to settle.
+  expect: { timeout: 10_000 },
   fullyParallel: false,
   // A stray test.only would quietly run one test and pass: refused everywhere, not only in CI.
   forbidOnly: true,
@@ -42,6 +44,8 @@ export default defineConfig({
     url: `http://localhost:${PORT}/api/health`,
     reuseExistingServer: false,
     timeout: 60_000,
+  // Two cores shared with builds and other suites: a page can take longer than the default 5 s to settle.
+  expect: { timeout: 10_000 },
     env: {
       PORT: String(PORT),
       NUXT_DB_PATH: join(dataDir, 'e2e.sqlite'),

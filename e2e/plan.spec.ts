@@ -8,7 +8,8 @@ test.describe('organiser planning page', () => {
     await page.getByRole('link', { name: /Strait of Gibraltar/ }).click()
     await expect(page.getByRole('heading', { name: /Strait of Gibraltar/ })).toBeVisible()
     await expect(page.locator('.maplibregl-canvas')).toBeVisible()
-    await expect(page.getByRole('button', { name: 'Site Luxor West Bank' })).toBeVisible()
+    // Markers come once the map has loaded its style and tiles, drawn in software (SwiftShader): slow on a busy machine.
+    await expect(page.getByRole('button', { name: 'Site Luxor West Bank' })).toBeVisible({ timeout: 30_000 })
   })
 
   test('the map draws from local tiles, and the table ranks the demo sites', async ({ page }) => {
