@@ -44,8 +44,6 @@ export default defineConfig({
     url: `http://localhost:${PORT}/api/health`,
     reuseExistingServer: false,
     timeout: 60_000,
-  // Two cores shared with builds and other suites: a page can take longer than the default 5 s to settle.
-  expect: { timeout: 10_000 },
     env: {
       PORT: String(PORT),
       NUXT_DB_PATH: join(dataDir, 'e2e.sqlite'),
