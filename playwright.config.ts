@@ -19,8 +19,11 @@ const fakes = fakeServices({ appPort: PORT })
 export default defineConfig({
   testDir: 'e2e',
   timeout: 60_000,
+  // Two cores shared with builds and other suites: a page can take longer than the default 5 s to settle.
+  expect: { timeout: 10_000 },
   fullyParallel: false,
-  forbidOnly: !!process.env.CI,
+  // A stray test.only would quietly run one test and pass: refused everywhere, not only in CI.
+  forbidOnly: true,
   workers: 1,
   reporter: [['list']],
   use: {

@@ -2,6 +2,8 @@ import { defineConfig } from 'vitest/config'
 
 export default defineConfig({
   test: {
+    // A stray it.only would quietly narrow the run: refused outside CI too (scripts/test.mjs also passes --allowOnly=false).
+    allowOnly: false,
     projects: [
       {
         test: {

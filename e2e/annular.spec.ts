@@ -1,8 +1,8 @@
-import { expect, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test('an annular trip says "annularity" on its page and countdown, never "totality", and keeps filters on', async ({ page }) => {
   await signInAs(page, 'guide@umbrafield.test')
-  await page.goto('/trips')
+  await gotoHydrated(page, '/trips')
   await page.getByRole('link', { name: /Punta del Este/ }).click()
   await expect(page.getByText(/Annular solar eclipse of 2027-02-06/)).toBeVisible()
   await expect(page.getByRole('cell', { name: 'C2 — annularity begins' })).toBeVisible()
@@ -10,7 +10,7 @@ test('an annular trip says "annularity" on its page and countdown, never "totali
   await expect(page.locator('main, body').first()).not.toContainText(/totality/i)
 
   const tripPath = new URL(page.url()).pathname
-  await page.goto(`${tripPath}/timetable`)
+  await gotoHydrated(page, `${tripPath}/timetable`)
   const site = page.getByRole('article').first()
   await expect(site).toContainText('annularity begins')
   await expect(site.getByText('filters off')).toHaveCount(0)
@@ -23,7 +23,7 @@ test('an annular trip says "annularity" on its page and countdown, never "totali
 
 test('the countdown\'s next cue is the next in time, on the fixed test clock', async ({ page }) => {
   await signInAs(page, 'guide@umbrafield.test')
-  await page.goto('/trips/1/countdown/4')
+  await gotoHydrated(page, '/trips/1/countdown/4')
   await expect(page.getByTestId('next-cue')).toContainText('Partial phase begins')
   // Jump the page's clock to a minute after C2 at Luxor: the next cue must be one still to come,
   // never a filters-off cue whose time has passed.

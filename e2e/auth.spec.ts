@@ -1,7 +1,7 @@
-import { expect, hydrated, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test('the home page says what Umbrafield does, with no request leaving the machine', async ({ page }) => {
-  await page.goto('/')
+  await gotoHydrated(page, '/')
   await expect(page.getByRole('heading', { level: 1 })).toContainText('shadow')
   await expect(page.getByText('ISO 12312-2').first()).toBeVisible()
   const font = await page.evaluate(() => getComputedStyle(document.body).fontFamily)
@@ -27,7 +27,7 @@ test('each role sees its own navigation', async ({ page }) => {
 })
 
 test('sign-in form shows field errors and the generic failure message', async ({ page }) => {
-  await page.goto('/login')
+  await gotoHydrated(page, '/login')
   await page.getByRole('button', { name: 'Sign in' }).click()
   await expect(page.getByText('Enter a valid e-mail address')).toBeVisible()
   await page.getByLabel('E-mail').fill('organiser@umbrafield.test')
@@ -43,13 +43,12 @@ test('an organiser promotes a traveller on the People page; the traveller\'s ses
   await expect(traveller.getByTestId('role-chip')).toHaveText('traveller')
 
   await signInAs(page, 'organiser@umbrafield.test')
-  await page.goto('/people')
-  await hydrated(page)
+  await gotoHydrated(page, '/people')
   await page.getByLabel('Role for Samir Okafor (demo traveller)').selectOption('guide')
   await expect(page.getByRole('status')).toHaveText('Role updated.')
 
   // A role change ends the person's sessions: the next page knows them no more.
-  await traveller.goto('/account')
+  await gotoHydrated(traveller, '/account')
   await expect(traveller).toHaveURL(/\/login/)
   await signInAs(traveller, 'traveller2@umbrafield.test')
   await expect(traveller.getByTestId('role-chip')).toHaveText('guide')
@@ -58,12 +57,12 @@ test('an organiser promotes a traveller on the People page; the traveller\'s ses
 
 test('a traveller who opens /people is told it is not for their role', async ({ page }) => {
   await signInAs(page, 'traveller@umbrafield.test')
-  await page.goto('/people')
+  await gotoHydrated(page, '/people')
   await expect(page.getByRole('heading', { name: 'Not for your role' })).toBeVisible()
 })
 
 test('a signed-out visitor is sent to sign in and brought back', async ({ page }) => {
-  await page.goto('/account')
+  await gotoHydrated(page, '/account')
   await expect(page).toHaveURL(/\/login\?next=(%2F|\/)account/)
   await page.getByLabel('E-mail').fill('guide@umbrafield.test')
   await page.getByLabel('Password').fill('eclipse-demo')
@@ -72,13 +71,13 @@ test('a signed-out visitor is sent to sign in and brought back', async ({ page }
 })
 
 test('unknown pages get the tidy 404', async ({ page }) => {
-  const res = await page.goto('/no-such-page')
+  const res = await gotoHydrated(page, '/no-such-page')
   expect(res?.status()).toBe(404)
   await expect(page.getByRole('heading', { name: 'Off the path' })).toBeVisible()
 })
 
 test('the eclipse page computes local circumstances', async ({ page }) => {
-  await page.goto('/eclipses/2027-08-02')
+  await gotoHydrated(page, '/eclipses/2027-08-02')
   await page.getByLabel('Latitude (° N)').fill('25.6872')
   await page.getByLabel('Longitude (° E)').fill('32.6396')
   await page.getByRole('button', { name: 'Compute' }).click()

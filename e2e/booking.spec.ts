@@ -1,8 +1,8 @@
-import { expect, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test('a traveller books two seats, pays the deposit on the payment page, and the organiser sees it', async ({ page, browser }) => {
   await signInAs(page, 'traveller@umbrafield.test')
-  await page.goto('/trips')
+  await gotoHydrated(page, '/trips')
   await page.getByRole('link', { name: /Luxor totality week/ }).click()
   await expect(page.getByRole('heading', { name: /At Luxor West Bank/ })).toBeVisible()
   await expect(page.getByRole('note', { name: 'Eye safety' })).toContainText('ISO 12312-2')
@@ -23,12 +23,12 @@ test('a traveller books two seats, pays the deposit on the payment page, and the
   const orgCtx = await browser.newContext()
   const org = await orgCtx.newPage()
   await signInAs(org, 'organiser@umbrafield.test')
-  await org.goto('/trips/1/manage')
+  await gotoHydrated(org, '/trips/1/manage')
   await expect(org.getByRole('table', { name: 'Bookings' }).getByRole('row').filter({ hasText: 'Aiko Brennan' })).toContainText('confirmed')
   await orgCtx.close()
 
   // Cancel inside the first tier: the whole deposit comes back.
-  await page.goto(bookingUrl.replace(/\?.*/, ''))
+  await gotoHydrated(page, bookingUrl.replace(/\?.*/, ''))
   page.once('dialog', (d) => d.accept())
   await page.getByRole('button', { name: 'Cancel booking' }).click()
   await expect(page.getByRole('status').filter({ hasText: 'Cancelled' })).toHaveText('Cancelled. Refund: €1,000.00.')
@@ -36,7 +36,7 @@ test('a traveller books two seats, pays the deposit on the payment page, and the
 
 test('a declined card leaves the booking held', async ({ page }) => {
   await signInAs(page, 'traveller@umbrafield.test')
-  await page.goto('/trips/1')
+  await gotoHydrated(page, '/trips/1')
   await page.getByRole('button', { name: /Hold 1 seat/ }).click()
   await page.getByRole('button', { name: /Pay deposit/ }).click()
   await page.getByLabel('Card number').fill('4000 0000 0000 0002')

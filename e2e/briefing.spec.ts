@@ -1,8 +1,8 @@
-import { expect, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test('a booked traveller opens the Luxor briefing from the booking: sequence, sky diagram, corona, what to bring, safety', async ({ page }) => {
   await signInAs(page, 'traveller2@umbrafield.test')
-  await page.goto('/bookings')
+  await gotoHydrated(page, '/bookings')
   await page.getByRole('link', { name: /Luxor/ }).first().click()
   await page.getByRole('link', { name: /Your briefing/ }).click()
   await expect(page.getByRole('heading', { level: 1 })).toContainText('Luxor')
@@ -25,6 +25,6 @@ test('a traveller without a booking on the trip is told there is no such trip', 
   const made = await page.request.post('/api/auth/register', { data: { name: 'No Booking (test)', email, password: 'a-long-test-password-1' } })
   expect(made.status()).toBe(202)
   await signInAs(page, email, 'a-long-test-password-1')
-  const res = await page.goto('/trips/1/briefing')
+  const res = await gotoHydrated(page, '/trips/1/briefing')
   expect(res?.status()).toBe(404)
 })

@@ -28,16 +28,29 @@ export const test = base.extend<{ outside: string[]; fixedClock: undefined; cspV
 })
 export { expect }
 
-/** Waits until the page is hydrated: before that, a change to a control can be lost. */
+/**
+ * Waits until the page is hydrated (app.vue and error.vue mark <html data-hydrated> once mounted):
+ * before that, a click or a change to a control can be lost, most of all on a busy machine.
+ */
 export async function hydrated(page: Page) {
-  await expect(page.locator('html')).toHaveAttribute('data-hydrated', 'true')
+  await expect(page.locator('html')).toHaveAttribute('data-hydrated', 'true', { timeout: 30_000 })
+}
+
+/**
+ * Opens a page of the app and waits for hydration, so the test acts on live controls. Every test
+ * opens app pages this way; after a full reload, call `hydrated` again. Returns the response.
+ */
+export async function gotoHydrated(page: Page, url: string) {
+  const res = await page.goto(url)
+  await hydrated(page)
+  return res
 }
 
 export async function signInAs(page: Page, email: string, password = 'eclipse-demo') {
-  await page.goto('/login')
-  await hydrated(page)
+  await gotoHydrated(page, '/login')
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
   await page.waitForURL((u) => !u.pathname.startsWith('/login'))
+  await hydrated(page)
 }

@@ -1,14 +1,15 @@
 import { readFileSync } from 'node:fs'
-import { expect, signInAs, test } from './fixtures'
+import { expect, gotoHydrated, signInAs, test } from './fixtures'
 
 test.describe('organiser planning page', () => {
   test.beforeEach(async ({ page }) => {
     await signInAs(page, 'organiser@umbrafield.test')
-    await page.goto('/plan')
+    await gotoHydrated(page, '/plan')
     await page.getByRole('link', { name: /Strait of Gibraltar/ }).click()
     await expect(page.getByRole('heading', { name: /Strait of Gibraltar/ })).toBeVisible()
     await expect(page.locator('.maplibregl-canvas')).toBeVisible()
-    await expect(page.getByRole('button', { name: 'Site Luxor West Bank' })).toBeVisible()
+    // Markers come once the map has loaded its style and tiles, drawn in software (SwiftShader): slow on a busy machine.
+    await expect(page.getByRole('button', { name: 'Site Luxor West Bank' })).toBeVisible({ timeout: 30_000 })
   })
 
   test('the map draws from local tiles, and the table ranks the demo sites', async ({ page }) => {
@@ -90,7 +91,7 @@ test.describe('organiser planning page', () => {
 
 test('a guide sees the plan but cannot edit it', async ({ page }) => {
   await signInAs(page, 'guide@umbrafield.test')
-  await page.goto('/plan/1')
+  await gotoHydrated(page, '/plan/1')
   await expect(page.getByRole('table', { name: 'Site comparison' })).toBeVisible()
   await expect(page.getByRole('heading', { name: 'Add candidate sites' })).toHaveCount(0)
 })

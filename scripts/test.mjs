@@ -6,6 +6,7 @@ import { spawnSync } from 'node:child_process'
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import { countPlaywright, countVitest } from './test-results.mjs'
 
 const CHROMIUM = '/usr/bin/chromium'
 const tmp = mkdtempSync(join(tmpdir(), 'umbrafield-tests-'))
@@ -32,20 +33,22 @@ run('build', 'npx', ['nuxt', 'build'])
 run('lint', 'npm', ['run', '--silent', 'lint'])
 run('types', 'npx', ['vue-tsc', '-b', '--noEmit'])
 const vitestJson = join(tmp, 'vitest.json')
-run('unit and server tests (SQLite)', 'npx', ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`])
+run('unit and server tests (SQLite)', 'npx', ['vitest', 'run', '--allowOnly=false', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`])
 const pgJson = join(tmp, 'vitest-postgres.json')
-run('server tests (PostgreSQL)', process.execPath, ['scripts/with-postgres.mjs', 'npx', 'vitest', 'run', '--project', 'server', '--reporter=default', '--reporter=json', `--outputFile.json=${pgJson}`])
+run('server tests (PostgreSQL)', process.execPath, ['scripts/with-postgres.mjs', 'npx', 'vitest', 'run', '--allowOnly=false', '--project', 'server', '--reporter=default', '--reporter=json', `--outputFile.json=${pgJson}`])
 const pwJson = join(tmp, 'playwright.json')
 run('browser tests', 'npx', ['playwright', 'test', '--reporter=list,json'], { PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson })
 
-const v = JSON.parse(readFileSync(vitestJson, 'utf8'))
-const g = JSON.parse(readFileSync(pgJson, 'utf8'))
-const p = JSON.parse(readFileSync(pwJson, 'utf8'))
-const passed = v.numPassedTests + g.numPassedTests + (p.stats?.expected ?? 0)
-const failed = v.numFailedTests + g.numFailedTests + (p.stats?.unexpected ?? 0)
-const skipped = (v.numPendingTests ?? 0) + (g.numPendingTests ?? 0) + (p.stats?.skipped ?? 0)
-console.log(`\nunit+server on SQLite: ${v.numPassedTests} passed; server on PostgreSQL: ${g.numPassedTests} passed; browser: ${p.stats?.expected ?? 0} passed`)
-console.log(`${passed} passed, ${failed} failed, ${skipped} skipped`)
-// A skipped test fails the run too: nothing may be quietly left out.
-if (skipped > 0) console.error(`✗ ${skipped} test(s) skipped`)
-process.exit(failed > 0 || passed === 0 || skipped > 0 ? 1 : 0)
+// Counted per test, so todo tests count as not run like skipped ones (scripts/test-results.mjs).
+const v = countVitest(JSON.parse(readFileSync(vitestJson, 'utf8')))
+const g = countVitest(JSON.parse(readFileSync(pgJson, 'utf8')))
+const p = countPlaywright(JSON.parse(readFileSync(pwJson, 'utf8')))
+const passed = v.passed + g.passed + p.passed
+const failed = v.failed + g.failed + p.failed
+const notRun = v.notRun + g.notRun + p.notRun
+console.log(`\nunit+server on SQLite: ${v.passed} passed; server on PostgreSQL: ${g.passed} passed; browser: ${p.passed} passed`)
+console.log(`${passed} passed, ${failed} failed, ${notRun} not run (skipped or todo; ${v.todo + g.todo} todo)`)
+// A skipped or todo test fails the run too: nothing may be quietly left out. A `.only` fails it
+// as well (vitest --allowOnly=false, Playwright forbidOnly), in CI and out of it.
+if (notRun > 0) console.error(`✗ ${notRun} test(s) not run`)
+process.exit(failed > 0 || passed === 0 || notRun > 0 ? 1 : 0)

@@ -6,7 +6,7 @@
 // Test cards on the payment page: 4242 4242 4242 4242 succeeds, 4000 0000 0000 0002 is declined,
 // 4000 0025 0000 3155 needs an extra confirmation step.
 // Control (for scripts and tests): POST /_fake/checkout/sessions/{id}/complete {outcome}, POST /_fake/webhooks/{pause|resume},
-// GET /_fake/state, POST /_fake/reset.
+// POST /_fake/refunds/fail {count}, POST /_fake/refunds/drop-reply {count}, GET /_fake/holdings?sessions=…, GET /_fake/state.
 import { createHmac, randomBytes } from 'node:crypto'
 import { createServer } from 'node:http'
 
@@ -18,6 +18,15 @@ const db = { customers: new Map(), sessions: new Map(), intents: new Map(), refu
 let paused = false
 /** Refund creations still to fail on purpose (set through /_fake/refunds/fail). */
 let failRefunds = 0
+/**
+ * New refunds whose reply is to be lost (set through /_fake/refunds/drop-reply): the refund is made
+ * and its idempotent reply kept, as at Stripe, but the connection is cut before the caller hears it,
+ * and so is every repeat under the same idempotency key. A caller learns of it only by asking.
+ */
+let dropRefundReplies = 0
+const lostReplyKeys = new Set()
+/** How many replies were cut so far (GET /_fake/state), so a test can tell when the caller stopped trying. */
+let lostReplies = 0
 const pending = [] // events waiting for delivery while paused or failing
 
 const id = (prefix) => `${prefix}_${randomBytes(12).toString('hex')}`
@@ -132,6 +141,8 @@ const server = createServer(async (req, res) => {
 
   // Idempotency: the same key on a POST replays the first response.
   const idemKey = req.method === 'POST' && seg[0] === 'v1' ? req.headers['idempotency-key'] : undefined
+  const refundCreate = req.method === 'POST' && seg[0] === 'v1' && seg[1] === 'refunds' && !seg[2]
+  if (refundCreate && idemKey && lostReplyKeys.has(idemKey)) { lostReplies++; return void res.destroy() }
   if (idemKey && db.idem.has(idemKey)) { const [st, body] = db.idem.get(idemKey); return send(res, st, body, { 'idempotent-replayed': 'true' }) }
   const reply = (status, body) => { if (idemKey) db.idem.set(idemKey, [status, body]); send(res, status, body) }
 
@@ -186,6 +197,12 @@ const server = createServer(async (req, res) => {
         const r = { id: id('re'), object: 'refund', created: now(), amount, currency: pi.currency, payment_intent: pi.id, status: 'succeeded', reason: form.reason ?? null, metadata: form.metadata ?? {} }
         db.refunds.set(r.id, r)
         emit('charge.refunded', { id: pi.latest_charge, object: 'charge', payment_intent: pi.id, amount_refunded: pi.amount_refunded })
+        if (dropRefundReplies > 0) {
+          dropRefundReplies--
+          if (idemKey) { db.idem.set(idemKey, [200, r]); lostReplyKeys.add(idemKey) }
+          lostReplies++
+          return void res.destroy()
+        }
         return reply(200, r)
       }
       if (resource === 'refunds' && req.method === 'GET' && rid) return db.refunds.has(rid) ? send(res, 200, db.refunds.get(rid)) : error(res, 404, `No such refund: '${rid}'`)
@@ -247,6 +264,7 @@ const server = createServer(async (req, res) => {
         return send(res, 200, { ok: true })
       }
       if (seg[1] === 'refunds' && seg[2] === 'fail' && req.method === 'POST') { failRefunds = Number(form.count ?? 1); return send(res, 200, { failRefunds }) }
+      if (seg[1] === 'refunds' && seg[2] === 'drop-reply' && req.method === 'POST') { dropRefundReplies = Number(form.count ?? 1); return send(res, 200, { dropRefundReplies }) }
       // What the fake holds for the given checkout sessions: received − refunded over their payment
       // intents. By session, not by booking id: several test databases share one fake.
       if (seg[1] === 'holdings') {
@@ -254,7 +272,7 @@ const server = createServer(async (req, res) => {
         const mine = sessions.map((s) => db.sessions.get(s)?.payment_intent).filter(Boolean).map((p) => db.intents.get(p))
         return send(res, 200, { sessions: sessions.length, intents: mine.length, netMinor: mine.reduce((s, pi) => s + pi.amount_received - pi.amount_refunded, 0) })
       }
-      if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused })
+      if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused, lostReplies })
       if (seg[1] === 'health') return send(res, 200, { ok: true })
     }
     error(res, 404, 'Not found', 'unknown_route')

@@ -50,6 +50,8 @@ export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedG
   if (bands !== 1 && bands !== 12) throw new ClimatologyError(`Expected 1 band (one month) or 12 bands (one per month), found ${bands}`)
   if (bands === 1 && month === undefined) throw new ClimatologyError('Choose the month this single-band file represents')
   if (bands === 1) checkMonth(month!, 'month')
+  // Cloud is read between cell centres (bilinear), which needs two of them each way.
+  if (width < 2 || height < 2) throw new ClimatologyError(`The grid needs at least 2 × 2 cells, this one has ${width} × ${height}`)
   const rasters = await image.readRasters({ interleave: false }) as unknown as ArrayLike<number>[]
   const scaleAll = rasters.every((band) => {
     for (let k = 0; k < band.length; k++) { const v = band[k]!; if (v !== nodata && !Number.isNaN(v) && v > 1) return false }
@@ -58,6 +60,7 @@ export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedG
   const months: ParsedGrid['months'] = new Map()
   rasters.forEach((band, b) => {
     const out = new Float32Array(width * height)
+    let valid = 0
     for (let r = 0; r < height; r++) {
       const row = northUp ? height - 1 - r : r
       for (let c = 0; c < width; c++) {
@@ -66,8 +69,10 @@ export async function parseGeoTiff(buf: Buffer, month?: number): Promise<ParsedG
         const pct = scaleAll ? v * 100 : v
         if (pct < 0 || pct > 100) throw new ClimatologyError(`Value out of range at row ${r + 1}, column ${c + 1}: ${v} (expected a fraction 0–1 or percent 0–100)`)
         out[row * width + c] = pct
+        valid++
       }
     }
+    if (!valid) throw new ClimatologyError(bands === 12 ? `The grid has no data: month ${b + 1} has no data in any cell` : 'The grid has no data: every cell is no-data')
     months.set(bands === 12 ? b + 1 : month!, { cloud: out })
   })
   return { format: 'geotiff', lat0, lon0, dlat, dlon, nlat: height, nlon: width, months }

@@ -277,7 +277,12 @@ async function attemptRefund(db: Kysely<Database>, stripe: Stripe | null, refund
   } catch (e) {
     const attempts = r.attempts + 1
     await db.transaction().execute(async (trx) => {
-      await trx.updateTable('refunds').set({ status: 'failed', attempts, error: (e as Error).message.slice(0, 500), next_attempt_at: iso(nowMs() + retryDelayMs(attempts)) }).where('id', '=', r.id).execute()
+      // Never over a success: a slow attempt (still in the SDK's network retries) may fail after
+      // another attempt of the same row has found the refund and counted it; reopening the row
+      // would count it a second time on the next retry.
+      const marked = await trx.updateTable('refunds').set({ status: 'failed', attempts, error: (e as Error).message.slice(0, 500), next_attempt_at: iso(nowMs() + retryDelayMs(attempts)) })
+        .where('id', '=', r.id).where('status', '!=', 'succeeded').executeTakeFirst()
+      if (!marked.numUpdatedRows) return
       if (attempts >= REFUND_ALERT_AFTER && !r.organiser_notified_at) {
         await trx.updateTable('refunds').set({ organiser_notified_at: iso() }).where('id', '=', r.id).execute()
         await alertOrganiser(trx, r.booking_id, r.id, r.amount_minor, attempts, (e as Error).message, cfg.appUrl)

@@ -1,9 +1,12 @@
 import { describe, expect, it } from 'vitest'
-import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, until, useApp } from './app'
+import { advanceClock, api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
 // The racers below sign in from their own addresses, as a trusted proxy reports them: forty
 // simultaneous sign-ins from one address would rightly be slowed by the per-address backoff.
-await useApp({ UMBRAFIELD_RECONCILE_AFTER_MS: '1500', NUXT_TRUSTED_PROXIES: '127.0.0.1' })
+// Checkouts still pending after 30 s of app time are asked about at Stripe (reconciliation); tests
+// move the app's clock past that rather than wait.
+const RECONCILE_AFTER_MS = 30_000
+await useApp({ UMBRAFIELD_RECONCILE_AFTER_MS: String(RECONCILE_AFTER_MS), NUXT_TRUSTED_PROXIES: '127.0.0.1' })
 
 const tripBody = (over: Record<string, unknown> = {}) => ({
   workspaceId: 1, primarySiteId: 4, backupSiteIds: [5], title: 'Test trip', startDate: '2027-07-31', endDate: '2027-08-03',
@@ -109,8 +112,8 @@ describe('booking and paying', () => {
     await pay(hold.body.id, trav)
     const b1 = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (x) => x.body.status === 'confirmed')
     const state = await (await fetch(`${STRIPE_FAKE}/_fake/state`)).json()
+    // Each redelivery returns once the app has answered the webhook, so the replays are all handled here.
     for (const e of state.events.slice(-4)) await fetch(`${STRIPE_FAKE}/_fake/events/${e.id}/redeliver`, { method: 'POST' })
-    await new Promise((res) => setTimeout(res, 300))
     const b2 = await api(`/api/bookings/${hold.body.id}`, { cookie: trav })
     expect(b2.body.paidMinor).toBe(b1.body.paidMinor)
     expect(b2.body.receipts).toHaveLength(1)
@@ -158,17 +161,27 @@ describe('booking and paying', () => {
     const trav = await signIn(TRAVELLER)
     const tripId = await newTrip(await signIn(ORGANISER))
     const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
+    const events = async () => ((await (await fetch(`${STRIPE_FAKE}/_fake/state`)).json()).events as Array<{ id: string; delivered: boolean }>)
+    const before = new Set((await events()).map((e) => e.id))
     await fetch(`${STRIPE_FAKE}/_fake/webhooks/pause`, { method: 'POST' })
     let session: string
+    let held: string[] = []
     try {
       session = await pay(hold.body.id, trav)
       expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.status).toBe('held')
+      // Once the checkout has been pending longer than the reconciliation delay, housekeeping asks Stripe.
+      await advanceClock(RECONCILE_AFTER_MS + 1000)
       const b = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (r) => r.body.status === 'confirmed', 10_000)
       expect(b.body).toMatchObject({ status: 'confirmed', paidMinor: 40_000 })
+      // This payment's events, held back by the pause.
+      held = (await events()).filter((e) => !before.has(e.id) && !e.delivered).map((e) => e.id)
+      expect(held.length).toBeGreaterThanOrEqual(2)
     } finally {
       await fetch(`${STRIPE_FAKE}/_fake/webhooks/resume`, { method: 'POST' })
     }
-    await new Promise((r) => setTimeout(r, 800))
+    // The late webhooks arrive (the fake marks each one the app accepted), and count for nothing.
+    const delivered = await until(events, (list) => held.every((id) => list.find((e) => e.id === id)?.delivered))
+    expect(held.every((id) => delivered.find((e) => e.id === id)?.delivered)).toBe(true)
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.paidMinor).toBe(40_000)
     await expectLedgerMatchesFake(hold.body.id, trav, [session])
   })

@@ -1,4 +1,4 @@
-import { execFile } from 'node:child_process'
+import { execFile, spawn, type ChildProcess } from 'node:child_process'
 import { mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
@@ -9,13 +9,42 @@ import { migrateToLatest, openDatabase } from '../../server/database/connection'
 import type { Database } from '../../server/database/schema'
 import { INSTANCE_ID, withLease } from '../../server/services/leases'
 import { enqueueMail, processOutbox } from '../../server/services/outbox'
-import { api, freshPostgresDatabase, TEST_DB, useApp } from './app'
+import { url } from '@nuxt/test-utils/e2e'
+import { fakeServices } from '../../scripts/fakes.mjs'
+import { freePort } from '../../scripts/free-port.mjs'
+import { api, freshPostgresDatabase, ORGANISER, signIn, TEST_DB, TEST_PORTS, useApp } from './app'
 
 // What several app instances on one database rely on, checked on the database this run uses
-// (SQLite, or PostgreSQL under scripts/with-postgres.mjs). The app is started for the health check;
-// the concurrency checks use a database of their own, opened twice as two instances would.
-await useApp()
+// (SQLite, or PostgreSQL under scripts/with-postgres.mjs). The app is started for the health check
+// and the seat race; the other concurrency checks use a database of their own, opened twice as two
+// instances would. Racers sign in from their own addresses, as a trusted proxy reports them.
+const { dbTarget } = await useApp({ NUXT_TRUSTED_PROXIES: '127.0.0.1' })
 const rootDir = resolve(__dirname, '../..')
+
+/**
+ * Another instance of the built app on the test app's PostgreSQL database, on a free port, with the
+ * same session secret (a cookie from one instance is good at the other, as behind a load balancer).
+ */
+async function startInstance(children: ChildProcess[]): Promise<string> {
+  const port = await freePort()
+  const base = `http://127.0.0.1:${port}`
+  const child = spawn(process.execPath, ['.output/server/index.mjs'], {
+    cwd: rootDir, stdio: 'ignore',
+    env: {
+      ...process.env, ...Object.assign({}, ...fakeServices({ appPort: TEST_PORTS.app }).map((f) => f.appEnv)),
+      PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: dbTarget, NUXT_DB_PATH: '',
+      NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789', // as tests/server/app.ts gives the test app
+      NUXT_PUBLIC_APP_URL: base, NUXT_TRUSTED_PROXIES: '127.0.0.1', UMBRAFIELD_HOLD_LIMIT: '1000', UMBRAFIELD_TEST_CLOCK: '1',
+    },
+  })
+  children.push(child)
+  for (const end = Date.now() + 120_000; Date.now() < end;) {
+    if (child.exitCode !== null) throw new Error(`the second instance exited with ${child.exitCode}`)
+    try { if ((await fetch(`${base}/api/health`)).ok) return base } catch { /* starting */ }
+    await new Promise((r) => setTimeout(r, 250))
+  }
+  throw new Error(`the instance on ${base} did not become healthy`)
+}
 
 let target: string
 let a: Kysely<Database>
@@ -86,4 +115,48 @@ describe(`several instances on one database (${TEST_DB})`, () => {
     const left = await a.selectFrom('outbox').select('status').where('kind', '=', 'cluster-test').where('status', '!=', 'sent').execute()
     expect(left).toEqual([])
   })
+
+  it('travellers racing for the last seats through two instances never oversell (one instance on SQLite)', async () => {
+    // PostgreSQL: two more processes of the built app on the same database, the racers split between
+    // them. SQLite is the one-process set-up: the same race against the one instance.
+    const children: ChildProcess[] = []
+    try {
+      const bases = TEST_DB === 'PostgreSQL' ? await Promise.all([startInstance(children), startInstance(children)]) : [url('/').replace(/\/$/, '')]
+      const org = await signIn(ORGANISER)
+      const trip = await api('/api/trips', { method: 'POST', cookie: org, body: {
+        workspaceId: 1, primarySiteId: 4, title: 'Last seats', startDate: '2027-07-31', endDate: '2027-08-03', seats: 10,
+        priceMinor: 1000, depositMinor: 500, currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'Hotel', lat: 25.69, lon: 32.64, time: '2027-08-02T03:30:00Z' },
+      } })
+      expect((await api(`/api/trips/${trip.body.id}/publish`, { method: 'POST', cookie: org })).status).toBe(200)
+      const tripId = trip.body.id as number
+      const racer = async (i: number) => {
+        const email = `last-seat-${i}-${tripId}@umbrafield.test`
+        const inv = await api('/api/users', { method: 'POST', body: { name: `Last seat ${i}`, email, role: 'guide' }, cookie: org })
+        return signIn(email, inv.body.temporaryPassword, `198.51.100.${i + 1}`)
+      }
+      // Seven seats go first; twenty travellers then race for the last three, all at once.
+      const early = await racer(0)
+      expect((await fetch(`${bases[0]}/api/trips/${tripId}/bookings`, { method: 'POST', headers: { cookie: early, 'content-type': 'application/json' }, body: JSON.stringify({ seats: 7 }) })).status).toBe(201)
+      const cookies = await Promise.all(Array.from({ length: 20 }, (_, i) => racer(i + 1)))
+      const results = await Promise.all(cookies.map(async (cookie, i) => {
+        const r = await fetch(`${bases[i % bases.length]}/api/trips/${tripId}/bookings`, { method: 'POST', headers: { cookie, 'content-type': 'application/json' }, body: JSON.stringify({ seats: 1 }) })
+        return { status: r.status, body: await r.json() as { code?: string } }
+      }))
+      expect(results.filter((r) => r.status === 201)).toHaveLength(3)
+      const refused = results.filter((r) => r.status !== 201)
+      expect(refused).toHaveLength(17)
+      for (const r of refused) expect([r.status, r.body.code]).toEqual([409, 'sold_out'])
+      // Straight from the database: what is held on the trip is what it has, oversold by 0.
+      const c = openDatabase(dbTarget)
+      try {
+        const held = await c.selectFrom('bookings').select('seats').where('trip_id', '=', tripId).where('status', '=', 'held').execute()
+        const taken = held.reduce((s, b) => s + b.seats, 0)
+        expect(Math.max(0, taken - 10)).toBe(0)
+        expect(taken).toBe(10)
+        expect(held).toHaveLength(4)
+      } finally { await c.destroy() }
+    } finally {
+      for (const c of children) c.kill('SIGTERM')
+    }
+  }, 180_000)
 })

@@ -32,12 +32,17 @@ export default async function setup(project: TestProject) {
   for (const f of fakeServices({ appPort: ports.app })) {
     const child = spawn(process.execPath, f.args, { cwd: root, env: { ...process.env, ...f.env }, stdio: 'ignore' })
     children.push(child)
+    // Up to 30 s: on a busy machine a fake can take a while to answer its first request.
     let up = false
-    for (let i = 0; i < 100 && !up; i++) {
+    for (let i = 0; i < 300 && !up; i++) {
       try { up = (await fetch(f.health)).ok } catch { /* starting */ }
       if (!up) await new Promise((r) => setTimeout(r, 100))
     }
-    if (!up) throw new Error(`${f.name} did not start on ${f.health}`)
+    if (!up) {
+      // Leave nothing running behind a failed start.
+      for (const c of children) c.kill('SIGTERM')
+      throw new Error(`${f.name} did not start on ${f.health}`)
+    }
   }
   return () => { for (const c of children) c.kill('SIGTERM') }
 }

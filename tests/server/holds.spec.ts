@@ -1,9 +1,15 @@
-import { describe, expect, it } from 'vitest'
-import { advanceClock, api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { afterAll, describe, expect, it } from 'vitest'
+import { openDatabase } from '../../server/database/connection'
+import { advanceClock, api, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
-// Holds of 5 minutes, lapsed by moving the app's clock; at most 3 hold requests per account in 10 minutes.
+// Holds of 5 minutes and waitlist offers of 24 hours, lapsed by moving the app's clock; at most 3
+// hold requests per account in 10 minutes (the window of the route's limit).
 const HOLD_MINUTES = 5
-await useApp({ NUXT_HOLD_MINUTES: String(HOLD_MINUTES), UMBRAFIELD_HOLD_LIMIT: '3' })
+const OFFER_HOURS = 24
+const HOLD_WINDOW_MS = 10 * 60_000
+const { dbTarget } = await useApp({ NUXT_HOLD_MINUTES: String(HOLD_MINUTES), NUXT_OFFER_HOURS: String(OFFER_HOURS), UMBRAFIELD_HOLD_LIMIT: '3' })
+const db = openDatabase(dbTarget)
+afterAll(() => db.destroy())
 
 describe('lapsed holds', () => {
   it('a declined card leaves the hold to lapse, and the seats return', async () => {
@@ -40,5 +46,100 @@ describe('lapsed holds', () => {
     const limited = await api(`/api/trips/${trip.body.id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: trav })
     expect(limited.status).toBe(429)
     expect(limited.headers.get('retry-after')).toMatch(/^\d+$/)
+  })
+})
+
+/** An invited (so confirmed) account of its own, signed in; returns its cookie and user id. */
+async function freshAccount(org: string, label: string) {
+  const email = `${label}-${Math.random().toString(36).slice(2, 8)}@umbrafield.test`
+  const inv = await api('/api/users', { method: 'POST', body: { name: `${label} (test)`, email, role: 'guide' }, cookie: org })
+  expect(inv.status).toBe(201)
+  const user = await db.selectFrom('users').select('id').where('email', '=', email).executeTakeFirstOrThrow()
+  return { email, id: user.id, cookie: await signIn(email, inv.body.temporaryPassword) }
+}
+
+async function publishedTrip(org: string, seats: number) {
+  const trip = await api('/api/trips', { method: 'POST', cookie: org, body: {
+    workspaceId: 1, primarySiteId: 4, title: `${seats}-seat trip`, startDate: '2027-07-31', endDate: '2027-08-03', seats,
+    priceMinor: 1000, depositMinor: 500, currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'Hotel', lat: 25.69, lon: 32.64, time: '2027-08-02T03:30:00Z' },
+  } })
+  expect(trip.status).toBe(201)
+  expect((await api(`/api/trips/${trip.body.id}/publish`, { method: 'POST', cookie: org })).status).toBe(200)
+  return trip.body.id as number
+}
+
+describe('waitlist offers', () => {
+  it('an offer not taken up lapses after its hours; the seat goes to the next in line, then back on sale', async () => {
+    const org = await signIn(ORGANISER)
+    const tripId = await publishedTrip(org, 1)
+    const [holder, first, second, other] = await Promise.all(['holder', 'first', 'second', 'other'].map((l) => freshAccount(org, l)))
+    const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: holder!.cookie })
+    expect(hold.status).toBe(201)
+    expect((await api(`/api/trips/${tripId}/waitlist`, { method: 'POST', body: { seats: 1 }, cookie: first!.cookie })).body).toMatchObject({ status: 'waiting', position: 1 })
+    expect((await api(`/api/trips/${tripId}/waitlist`, { method: 'POST', body: { seats: 1 }, cookie: second!.cookie })).body).toMatchObject({ status: 'waiting', position: 2 })
+    const table = async () => (await api(`/api/trips/${tripId}/bookings`, { cookie: org })).body as { waitlist: Array<{ email: string; status: string; offerExpiresAt: string | null }> }
+
+    // The seat comes free: the first in line is offered it, for OFFER_HOURS.
+    expect((await api(`/api/bookings/${hold.body.id}/cancel`, { method: 'POST', cookie: holder!.cookie })).status).toBe(200)
+    const offered = await table()
+    expect(offered.waitlist.map((w) => [w.email, w.status])).toEqual([[first!.email, 'offered'], [second!.email, 'waiting']])
+    const now = Date.parse(await advanceClock(0))
+    expect(Math.abs(Date.parse(offered.waitlist[0]!.offerExpiresAt!) - (now + OFFER_HOURS * 3600_000))).toBeLessThan(60_000)
+    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: other!.cookie })).body.code).toBe('sold_out')
+
+    // A minute before the offer ends it still stands.
+    await advanceClock(OFFER_HOURS * 3600_000 - 60_000)
+    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: other!.cookie })).body.code).toBe('sold_out')
+    expect((await table()).waitlist[0]).toMatchObject({ email: first!.email, status: 'offered' })
+
+    // Past it, housekeeping lets the offer lapse and offers the seat to the next in line.
+    await advanceClock(2 * 60_000)
+    const moved = await until(table, (t) => t.waitlist.length === 1 && t.waitlist[0]!.status === 'offered')
+    expect(moved.waitlist.map((w) => [w.email, w.status])).toEqual([[second!.email, 'offered']])
+    const outbox = (await api('/api/outbox', { cookie: org })).body.data as Array<{ kind: string; to: string; tripId: number }>
+    expect(outbox.filter((m) => m.kind === 'waitlist-offer' && m.tripId === tripId).map((m) => m.to.match(/<(.*)>/)![1])).toEqual([second!.email, first!.email])
+    // The lapsed offer is gone: its holder is refused like anyone else.
+    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: first!.cookie })).body.code).toBe('sold_out')
+
+    // Nobody is left in line once the second offer lapses too: the seat is back on sale.
+    await advanceClock(OFFER_HOURS * 3600_000 + 60_000)
+    expect((await until(table, (t) => t.waitlist.length === 0)).waitlist).toEqual([])
+    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: other!.cookie })).status).toBe(201)
+  })
+})
+
+describe(`the hold limit (${TEST_DB})`, () => {
+  it('counts a burst that straddles a window boundary, and lets requests through once it is a window behind', async () => {
+    const org = await signIn(ORGANISER)
+    const tripId = await publishedTrip(org, 5)
+    const me = await freshAccount(org, 'burst')
+    const hold = () => api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: me.cookie })
+    // PostgreSQL counts in fixed windows (multiples of the window since 1970) and estimates a sliding
+    // window from the current and previous one; SQLite keeps a sliding window in memory. Put the
+    // burst across a boundary: three requests 20 s before it, the fourth 20 s after.
+    const now = Date.parse(await advanceClock(0))
+    let boundary = Math.ceil(now / HOLD_WINDOW_MS) * HOLD_WINDOW_MS
+    if (boundary - now < 30_000) boundary += HOLD_WINDOW_MS
+    await advanceClock(boundary - 20_000 - now)
+    const burst = [await hold(), await hold(), await hold()]
+    expect(burst.map((r) => r.status)).toEqual([201, 409, 409]) // one hold, then "change the seat count instead"
+    await advanceClock(40_000)
+    // A plain fixed window would start again from zero here and let three more through.
+    const fourth = await hold()
+    expect(fourth.status).toBe(429)
+    // The burst left the sliding window 10 minutes after it began; the refusal itself is owed nothing.
+    expect(Number(fourth.headers.get('retry-after'))).toBeGreaterThan(0)
+    expect(Number(fourth.headers.get('retry-after'))).toBeLessThanOrEqual(HOLD_WINDOW_MS / 1000)
+    const rows = await db.selectFrom('rate_limit_hits').select(['window_start', 'hits']).where('key', '=', `hold:${me.id}`).orderBy('window_start').execute()
+    if (TEST_DB === 'PostgreSQL') {
+      // Shared between instances: one row per fixed window, on both sides of the boundary.
+      expect(rows.map((r) => [Date.parse(r.window_start), Number(r.hits)])).toEqual([[boundary - HOLD_WINDOW_MS, 3], [boundary, 1]])
+    } else {
+      // One process: the window lives in memory and the table stays empty.
+      expect(rows).toEqual([])
+    }
+    // A full window after the burst, requests pass again (and the first hold has lapsed: a new one).
+    await advanceClock(HOLD_WINDOW_MS)
+    expect((await hold()).status).toBe(201)
   })
 })

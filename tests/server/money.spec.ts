@@ -1,10 +1,15 @@
 import Stripe from 'stripe'
-import { describe, expect, it } from 'vitest'
-import { api, ORGANISER, signIn, STRIPE_FAKE, TRAVELLER, TRAVELLER2, until, useApp } from './app'
+import { afterAll, describe, expect, it } from 'vitest'
+import { openDatabase } from '../../server/database/connection'
+import { advanceClock, api, ORGANISER, signIn, STRIPE_FAKE, TEST_PORTS, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
-// Money against the local Stripe fake. Holds last 6 s here so that a lapse can be watched; refunds
-// are retried after 0.5 s, 1 s, 2 s… (UMBRAFIELD_REFUND_RETRY_MS) by housekeeping every second.
-await useApp({ NUXT_HOLD_MINUTES: '0.1', UMBRAFIELD_RECONCILE_AFTER_MS: '1500' })
+// Money against the local Stripe fake. Holds last their usual 15 minutes and lapse when the test
+// moves the app's clock; refunds are retried after 0.5 s, 1 s, 2 s… of app time
+// (UMBRAFIELD_REFUND_RETRY_MS) by housekeeping every second.
+const HOLD_MINUTES = 15
+const { dbTarget } = await useApp({ NUXT_HOLD_MINUTES: String(HOLD_MINUTES), UMBRAFIELD_RECONCILE_AFTER_MS: '1500' })
+const db = openDatabase(dbTarget)
+afterAll(() => db.destroy())
 
 const WEBHOOK_SECRET = 'whsec_umbrafield_local_fake'
 const fake = (path: string, body?: unknown) => fetch(`${STRIPE_FAKE}${path}`, body === undefined ? {} : { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) }).then((r) => r.json())
@@ -96,7 +101,8 @@ describe('money that adds up', () => {
     const late = await signIn(TRAVELLER)
     const hold = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: late })
     const c = await api(`/api/bookings/${hold.body.id}/checkout`, { method: 'POST', cookie: late })
-    await new Promise((r) => setTimeout(r, 6500))
+    // The hold lapses: the app's clock moves past its end, and housekeeping lets the seat go.
+    await advanceClock(HOLD_MINUTES * 60_000 + 1000)
     const other = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER2) })
     expect(other.status).toBe(201)
     expect((await fake(`/_fake/checkout/sessions/${sessionOf(c.body.url)}/complete`, { outcome: 'succeeded' })).ok).toBe(true)
@@ -125,6 +131,107 @@ describe('money that adds up', () => {
     expect((await outbox()).some((m) => m.kind === 'refund-stuck')).toBe(true)
     expect((await outbox()).some((m) => m.kind === 'refund-issued')).toBe(true)
     await expectLedgerMatchesStripe(hold.body.id, trav, 30_000, [c.body.url])
+  })
+
+  it('a refund made at Stripe whose reply was lost is found again on the retry: given back once, counted once', async () => {
+    const trav = await signIn(TRAVELLER)
+    const org = await signIn(ORGANISER)
+    const { hold, c } = await confirmedBooking(trav, org)
+    const intent = (await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.receipts[0].reference as string
+    const madeAtStripe = async () => ((await fake('/_fake/state')).refunds as Array<{ id: string; payment_intent: string; amount: number }>).filter((r) => r.payment_intent === intent)
+    // Stripe makes the refund, but the connection drops before the app hears back: on the first try
+    // and on every repeat under the same idempotency key (the SDK's network retries, or a housekeeping
+    // tick trying the same new row alongside this request).
+    await fake('/_fake/refunds/drop-reply', { count: 1 })
+    try {
+      const r = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 10_000, reason: 'lost reply' }, cookie: org })
+      expect(r.body.refundMinor).toBe(10_000)
+      // Usually not heard of, so not counted yet: the ledger shows it failed, to be retried. (A housekeeping
+      // tick may have tried the same row first and met the lost reply; then this request's own try was the retry.)
+      if (!r.body.sent) {
+        const unheard = (await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body
+        expect(unheard.refundedMinor).toBe(0)
+        expect(unheard.ledger.entries.find((e: { type: string }) => e.type === 'refund').status).toBe('failed')
+      }
+    } finally {
+      await fake('/_fake/refunds/drop-reply', { count: 0 })
+    }
+    const made = await madeAtStripe()
+    expect(made.map((x) => x.amount)).toEqual([10_000])
+    // The retry is due after the backoff: move past it. It asks Stripe first, finds the refund, and makes no second one.
+    await advanceClock(60_000)
+    const done = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (x) => x.body.refundedMinor === 10_000)
+    expect(done.body.refundedMinor).toBe(10_000)
+    expect((await madeAtStripe()).map((x) => x.id)).toEqual([made[0]!.id])
+    expect(done.body.ledger.entries.find((e: { type: string }) => e.type === 'refund').reference).toBe(made[0]!.id)
+    // Attempts still in their network retries under the lost key (each try is counted by the fake)
+    // fail late, after the refund was found and counted: wait until they stop, then it must still count once.
+    let tries = -1, quietSince = Date.now()
+    await until(async () => (await fake('/_fake/state')).lostReplies as number, (n) => {
+      if (n !== tries) { tries = n; quietSince = Date.now() }
+      return Date.now() - quietSince > 3000
+    }, 20_000)
+    const settled = (await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body
+    expect(settled.refundedMinor).toBe(10_000)
+    // It took a second attempt: the first one lost the reply.
+    const row = await db.selectFrom('refunds').select(['status', 'attempts', 'stripe_refund_id']).where('booking_id', '=', hold.body.id).executeTakeFirstOrThrow()
+    expect(row.status).toBe('succeeded')
+    expect(row.attempts).toBeGreaterThanOrEqual(2)
+    expect(row.stripe_refund_id).toBe(made[0]!.id)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 30_000, [c.body.url])
+  })
+
+  it('a refund that keeps failing shows in the money check, and the organiser is told exactly once', async () => {
+    const trav = await signIn(TRAVELLER)
+    const org = await signIn(ORGANISER)
+    const { hold, c } = await confirmedBooking(trav, org)
+    // The catcher is shared by every test file's app (each with its own booking numbers): count what arrives from here on.
+    const caught = async () => ((await (await fetch(`http://127.0.0.1:${TEST_PORTS.fakes.MAIL_FAKE_WEB_PORT}/api/email`)).json()) as Array<{ subject: string }>)
+      .filter((m) => m.subject === `Refund keeps failing: booking #${hold.body.id}`).length
+    const caughtBefore = await caught()
+    const failing = async () => {
+      const report = await api('/api/reconciliation', { cookie: org })
+      expect(report.status).toBe(200)
+      return (report.body.failingRefunds as Array<{ id: number; bookingId: number; amountMinor: number; attempts: number; error: string; nextAttemptAt: string }>).find((f) => f.bookingId === hold.body.id)
+    }
+    const stuckMails = async () => ((await api('/api/outbox', { cookie: org })).body.data as Array<{ kind: string; bookingId: number | null; status: string }>)
+      .filter((m) => m.kind === 'refund-stuck' && m.bookingId === hold.body.id)
+    await fake('/_fake/refunds/fail', { count: 1000 })
+    try {
+      const r = await api(`/api/bookings/${hold.body.id}/refund`, { method: 'POST', body: { amountMinor: 5_000, reason: 'keeps failing' }, cookie: org })
+      expect(r.body).toEqual({ refundMinor: 5_000, sent: false })
+      // Retry rounds: each time the clock passes the next attempt, housekeeping tries again, and fails again.
+      for (let attempts = 2; attempts <= 6; attempts++) {
+        const before = (await failing())!
+        const now = await advanceClock(0)
+        await advanceClock(Math.max(0, Date.parse(before.nextAttemptAt) - Date.parse(now)) + 1000)
+        const after = await until(failing, (f) => (f?.attempts ?? 0) >= attempts)
+        expect(after!.attempts).toBeGreaterThanOrEqual(attempts)
+      }
+      const shown = (await failing())!
+      expect(shown).toMatchObject({ amountMinor: 5_000, error: expect.stringMatching(/refund failed/) })
+      expect(shown.attempts).toBeGreaterThanOrEqual(6)
+      // The ledger comparison finds no difference: a refund that never happened is on neither side.
+      await api('/api/reconciliation/run', { method: 'POST', cookie: org })
+      const diffs = (await api('/api/reconciliation', { cookie: org })).body.data as Array<{ bookingId: number; kind: string }>
+      expect(diffs.filter((d) => d.bookingId === hold.body.id)).toEqual([])
+      // One alert for the organiser (the trip's creator), however many rounds failed.
+      expect(await stuckMails()).toHaveLength(1)
+      // …and exactly one reaches the mail catcher.
+      await until(stuckMails, (m) => m[0]?.status === 'sent')
+      expect(await caught() - caughtBefore).toBe(1)
+    } finally {
+      await fake('/_fake/refunds/fail', { count: 0 })
+    }
+    // Stripe recovers: the next retry goes through, the money check lists it no more, and no second alert goes out.
+    const last = (await failing())!
+    await advanceClock(Math.max(0, Date.parse(last.nextAttemptAt) - Date.parse(await advanceClock(0))) + 1000)
+    const done = await until(() => api(`/api/bookings/${hold.body.id}`, { cookie: trav }), (x) => x.body.refundedMinor === 5_000)
+    expect(done.body.refundedMinor).toBe(5_000)
+    expect(await failing()).toBeUndefined()
+    expect(await stuckMails()).toHaveLength(1)
+    expect(await caught() - caughtBefore).toBe(1)
+    await expectLedgerMatchesStripe(hold.body.id, trav, 35_000, [c.body.url])
   })
 
   it('a cancel and a manual refund racing never refund more than was paid', async () => {
