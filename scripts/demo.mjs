@@ -105,7 +105,7 @@ async function publishedTrips() {
     const out = []
     for (const t of list.data) {
       const d = await (await fetch(`http://127.0.0.1:${ports[0]}/api/trips/${t.id}`)).json()
-      out.push(`    ${t.eclipseId}  ${(d.eclipse?.kind ?? '?').padEnd(8)} ${t.title} (from ${t.startDate}, near ${t.site.name})`)
+      out.push(`    ${t.eclipseId}  ${(d.eclipse?.kind ?? '?').padEnd(8)} ${t.title} (from ${t.startDate}; site: ${t.site.name})`)
     }
     return out.join('\n')
   } catch (e) {

@@ -32,6 +32,10 @@ class ImmediateSqliteDialect extends SqliteDialect {
 export function openDatabase(target: string): Kysely<Database> {
   if (isPostgresUrl(target)) {
     const pool = new pg.Pool({ connectionString: target, max: Number(process.env.PG_POOL_MAX || 10) })
+    // An idle pooled connection that the server drops (a restart, a failover) emits 'error' on the
+    // pool; unhandled, that would end the process. The pool discards that client and opens a fresh
+    // one for the next query, so logging is all there is to do.
+    pool.on('error', (e) => console.error('[umbrafield] database connection lost (the pool reconnects):', e.message))
     return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) })
   }
   const file = target === ':memory:' ? target : resolve(target)
