@@ -99,7 +99,7 @@ async function main() {
     for (let i = 0; i < 100; i++) { try { if ((await fetch(`${inboxBase}/api/email`)).ok) return } catch { /* starting */ } await sleep(200) }
     throw new Error('the mail catcher did not start')
   }
-  let catcher = startCatcher()
+  const catcher = startCatcher()
   await waitCatcher()
   // Webhooks go to instance A, the one that gets killed: the fake retries, reconciliation covers the rest.
   launch('stripe', ['fakes/stripe/server.mjs'], { STRIPE_FAKE_PORT: String(stripePort), STRIPE_WEBHOOK_SECRET: webhookSecret, STRIPE_FAKE_WEBHOOK_URL: `${bases[0]}/api/stripe/webhook` })
@@ -112,7 +112,7 @@ async function main() {
     NUXT_STRIPE_API_HOST: '127.0.0.1', NUXT_STRIPE_API_PORT: String(stripePort), NUXT_STRIPE_API_PROTOCOL: 'http',
     NUXT_MAIL_SMTP_HOST: '127.0.0.1', NUXT_MAIL_SMTP_PORT: String(smtpPort), NUXT_MAIL_SMTP_SECURE: 'false',
     NUXT_MAIL_FROM: 'Kestrel Sky Journeys (demo) <trips@umbrafield.test>',
-    NUXT_TRUSTED_PROXIES: '127.0.0.1', UMBRAFIELD_SIGNUP_LIMIT: '100000', UMBRAFIELD_HOLD_LIMIT: '100000',
+    NITRO_HOST: '127.0.0.1', NUXT_TRUSTED_PROXIES: '127.0.0.1', UMBRAFIELD_SIGNUP_LIMIT: '100000', UMBRAFIELD_HOLD_LIMIT: '100000',
     // Housekeeping, reconciliation and the mail worker on drill time rather than production time.
     UMBRAFIELD_HOUSEKEEPING_MS: '2000', UMBRAFIELD_RECONCILE_AFTER_MS: '3000', UMBRAFIELD_REFUND_RETRY_MS: '1000',
     UMBRAFIELD_LEDGER_RECONCILE_MS: '5000', UMBRAFIELD_MAIL_POLL_MS: '500', UMBRAFIELD_MAIL_BACKOFF_MS: '1000', UMBRAFIELD_MAIL_MAX_ATTEMPTS: '30',
@@ -170,7 +170,10 @@ async function main() {
   const emails = Array.from({ length: TRAVELLERS }, (_, i) => `drill${i}@faults.test`)
   const password = 'drill-password-123'
   const batches = async (items, size, f) => { for (let i = 0; i < items.length; i += size) await Promise.all(items.slice(i, i + size).map((x, j) => f(x, i + j))) }
-  await batches(emails, 20, (email, i) => call(i, '/api/auth/register', { body: { name: `Drill traveller ${i} (demo)`, email, password } }))
+  // One sign-up through the app; the other travellers are copies of it in the database (same
+  // password hash), which spares 199 password hashings on a small machine.
+  const signup = await call(0, '/api/auth/register', { body: { name: 'Drill traveller 0 (demo)', email: emails[0], password } })
+  if (signup.status >= 300) throw new Error(`sign-up failed: ${signup.status} ${await signup.text()}`)
   const q = new pg.Pool({ connectionString: databaseUrl, max: 4 })
   q.on('error', () => { /* the drill restarts PostgreSQL; the pool reconnects */ })
   const query = async (text, params) => {
@@ -178,6 +181,9 @@ async function main() {
       try { return (await q.query(text, params)).rows } catch (e) { if (k >= 40) throw e; await sleep(500) }
     }
   }
+  await query(`insert into users (email, name, role, password_hash)
+    select 'drill' || n || '@faults.test', 'Drill traveller ' || n || ' (demo)', role, password_hash
+    from users, generate_series(1, $1::int - 1) as n where email = $2`, [TRAVELLERS, emails[0]])
   await query(`update users set email_confirmed_at = created_at where email like '%@faults.test'`)
   const cookies = []
   await batches(emails, 20, async (email, i) => { cookies[i] = cookieOf(await call(i, '/api/auth/login', { body: { email, password } })) })
@@ -261,7 +267,7 @@ async function main() {
   await sleep(OUTAGE_MS)
   const failedDuringOutage = (await (await fetch(`${stripeBase}/_fake/state`)).json()).refundsFailed
   await fetch(`${stripeBase}/_fake/refunds/fail`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ on: false }) })
-  catcher = startCatcher()
+  startCatcher() // stopped by cleanup() with the other children
   await waitCatcher()
 
   // Settle: poll until nothing is pending and two readings agree, at most SETTLE_MS.
@@ -314,6 +320,9 @@ async function main() {
   const sentRows = outbox.filter((m) => m.status === 'sent')
   const lostMails = sentRows.filter((m) => !ids.has(norm(m.message_id))).length + outbox.filter((m) => m.status !== 'sent').length
   const duplicateMails = [...ids.values()].filter((n) => n > 1).length
+  // What went wrong, on stderr, so the figures on stdout stay one a line.
+  for (const [id, n] of ids) if (n > 1) console.error(`duplicate: ${id} ×${n} (${JSON.stringify((await query(`select kind, attempts, status from outbox where message_id = $1 or message_id = $2`, [id, `<${id}>`]))[0] ?? null)})`)
+  for (const m of sentRows) if (!ids.has(norm(m.message_id))) console.error(`lost: ${m.message_id}`)
   const fake = await (await fetch(`${stripeBase}/_fake/state`)).json()
   const refundRows = await query(`select count(*) filter (where status = 'succeeded') as ok, count(*) as n, coalesce(sum(attempts), 0) as attempts from refunds`)
 
@@ -346,7 +355,7 @@ async function main() {
   return Object.values(verdict).every((v) => v === 0) ? 0 : 1
 }
 
-let code = 1
+let code
 try {
   code = await main()
 } catch (e) {
