@@ -60,10 +60,12 @@ async function stopChild(child, signal = 'SIGTERM') {
   child.kill(signal)
   await Promise.race([gone, sleep(5000)])
 }
-async function cleanup() {
+async function cleanup(keepLogs = false) {
   for (const c of [...children]) await stopChild(c)
   try { pgc?.stop() } catch { /* already down */ }
-  rmSync(work, { recursive: true, force: true })
+  for (const f of ['mail']) rmSync(join(work, f), { recursive: true, force: true })
+  if (keepLogs) console.error(`faults: logs of the apps, the fake and the catcher are in ${work}`)
+  else rmSync(work, { recursive: true, force: true })
 }
 process.on('SIGINT', async () => { await cleanup(); process.exit(130) })
 
@@ -362,6 +364,6 @@ try {
   console.error(`faults: the drill could not run: ${e.message}`)
   code = 2
 } finally {
-  await cleanup()
+  await cleanup(code !== 0)
 }
 process.exit(code)
