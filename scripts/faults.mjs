@@ -322,6 +322,9 @@ async function main() {
   const sentRows = outbox.filter((m) => m.status === 'sent')
   const lostMails = sentRows.filter((m) => !ids.has(norm(m.message_id))).length + outbox.filter((m) => m.status !== 'sent').length
   const duplicateMails = [...ids.values()].filter((n) => n > 1).length
+  const outboxIds = new Set(outbox.map((m) => norm(m.message_id)))
+  const strangers = inbox.filter((m) => !outboxIds.has(String(m.messageId ?? m.headers?.['message-id'] ?? '').replace(/^<|>$/g, '')))
+  for (const m of strangers) console.error(`in the inbox, not in the outbox: ${JSON.stringify({ messageId: m.messageId ?? null, subject: m.subject ?? null, to: m.to ?? null, date: m.date ?? null })}`)
   // What went wrong, on stderr, so the figures on stdout stay one a line.
   for (const [id, n] of ids) if (n > 1) console.error(`duplicate: ${id} ×${n} (${JSON.stringify((await query(`select kind, attempts, status from outbox where message_id = $1 or message_id = $2`, [id, `<${id}>`]))[0] ?? null)})`)
   for (const m of sentRows) if (!ids.has(norm(m.message_id))) console.error(`lost: ${m.message_id}`)
@@ -346,6 +349,7 @@ async function main() {
     `mails queued ${outbox.length}`,
     `mails sent ${sentRows.length}`,
     `mails in the inbox ${inbox.length}`,
+    `mails in the inbox that no outbox row sent ${strangers.length}`,
     `seats confirmed or held ${live} of ${SEATS}`,
     `settled ${stable ? 'in' : 'NOT within'} ${settleSec} s`,
     `webhook events ${fake.events.length}, delivered ${fake.events.filter((e) => e.delivered).length}`,
