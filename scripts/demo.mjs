@@ -98,6 +98,21 @@ for (const [i, port] of ports.entries()) {
   start(INSTANCES > 1 ? `app ${i + 1}` : 'app', process.execPath, ['.output/server/index.mjs'], { ...appEnv, PORT: port })
   await waitFor(port)
 }
+// The demo's trips follow the business date (UMBRAFIELD_FIXED_DATE pins it): list what the app publishes.
+async function publishedTrips() {
+  try {
+    const list = await (await fetch(`http://127.0.0.1:${ports[0]}/api/trips`)).json()
+    const out = []
+    for (const t of list.data) {
+      const d = await (await fetch(`http://127.0.0.1:${ports[0]}/api/trips/${t.id}`)).json()
+      out.push(`    ${t.eclipseId}  ${(d.eclipse?.kind ?? '?').padEnd(8)} ${t.title} (from ${t.startDate}; site: ${t.site.name})`)
+    }
+    return out.join('\n')
+  } catch (e) {
+    return `    (could not list the trips: ${e.message})`
+  }
+}
+const tripLines = await publishedTrips()
 console.log(`
   Umbrafield demo is running (demo data: an invented company, Kestrel Sky Journeys)
 
@@ -109,13 +124,14 @@ ${fakes.map((f) => `  ${f.label.padEnd(14)} ${f.url}`).join('\n')}
     organiser@umbrafield.test   organiser
     guide@umbrafield.test       guide
     traveller@umbrafield.test   traveller
-    traveller2@umbrafield.test  traveller with a confirmed Luxor booking (open its briefing)
+    traveller2@umbrafield.test  traveller with a confirmed booking (open its briefing)
 
   Best ground: Site planning → a workspace → "Show expected seen seconds" and "Find the best ground near here".
   Terrain check: upload ${DEMO_TERRAIN} there (an invented ridge in front of Tangier Cap Spartel; demo data).
 
   New accounts confirm their address through the link in the mail inbox above before they can hold seats.
-  Demo trips: Luxor (total eclipse, 2027-08-02) and Punta del Este (annular eclipse, 2027-02-06).
+  Published demo trips${process.env.UMBRAFIELD_FIXED_DATE ? ` (business date pinned to ${process.env.UMBRAFIELD_FIXED_DATE})` : ''}:
+${tripLines}
 
   Press Ctrl-C to stop.
 `)

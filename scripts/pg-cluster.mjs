@@ -46,7 +46,7 @@ function asOwner(cmd, args) {
 }
 
 /**
- * Starts a cluster. Returns { url, adminUrl(db), stop() }: url names the "postgres" database as the
+ * Starts a cluster. Returns { url, port, stop(), restart() }: url names the "postgres" database as the
  * superuser "umbrafield" (trust authentication on loopback only).
  */
 export async function startPostgres() {
@@ -73,5 +73,7 @@ export async function startPostgres() {
     try { asOwner(join(bin, 'pg_ctl'), ['-D', data, '-m', 'immediate', '-w', 'stop']) } catch { /* already down */ }
     rmSync(dir, { recursive: true, force: true })
   }
-  return { url, port, stop }
+  /** Restarts the server (pg_ctl restart, fast shutdown): every open connection is dropped. */
+  const restart = () => asOwner(join(bin, 'pg_ctl'), ['-D', data, '-l', join(dir, 'server.log'), '-w', '-t', '60', '-m', 'fast', 'restart'])
+  return { url, port, stop, restart }
 }

@@ -6,7 +6,8 @@
 // Test cards on the payment page: 4242 4242 4242 4242 succeeds, 4000 0000 0000 0002 is declined,
 // 4000 0025 0000 3155 needs an extra confirmation step.
 // Control (for scripts and tests): POST /_fake/checkout/sessions/{id}/complete {outcome}, POST /_fake/webhooks/{pause|resume},
-// POST /_fake/refunds/fail {count}, POST /_fake/refunds/drop-reply {count}, GET /_fake/holdings?sessions=…, GET /_fake/state.
+// POST /_fake/refunds/fail {count} (the next count refunds fail) or {on: true|false} (all fail while on),
+// POST /_fake/refunds/drop-reply {count}, GET /_fake/holdings?sessions=…, GET /_fake/state.
 import { createHmac, randomBytes } from 'node:crypto'
 import { createServer } from 'node:http'
 
@@ -27,6 +28,10 @@ let dropRefundReplies = 0
 const lostReplyKeys = new Set()
 /** How many replies were cut so far (GET /_fake/state), so a test can tell when the caller stopped trying. */
 let lostReplies = 0
+/** While on (POST /_fake/refunds/fail {on: true}), every refund creation fails, until {on: false}. */
+let failRefundsOn = false
+/** Refund creations failed on purpose so far. */
+let refundsFailed = 0
 const pending = [] // events waiting for delivery while paused or failing
 
 const id = (prefix) => `${prefix}_${randomBytes(12).toString('hex')}`
@@ -188,7 +193,7 @@ const server = createServer(async (req, res) => {
       }
       if (resource === 'refunds' && req.method === 'POST' && !rid) {
         // Failures injected through /_fake/refunds/fail, so tests can watch a refund fail, then succeed on retry.
-        if (failRefunds > 0) { failRefunds--; return reply(400, { error: { type: 'invalid_request_error', code: 'refund_failed', message: 'The refund failed (injected by the local fake)' } }) }
+        if (failRefundsOn || failRefunds > 0) { if (!failRefundsOn) failRefunds--; refundsFailed++; return reply(400, { error: { type: 'invalid_request_error', code: 'refund_failed', message: 'The refund failed (injected by the local fake)' } }) }
         const pi = db.intents.get(form.payment_intent)
         if (!pi) return error(res, 400, `No such payment_intent: '${form.payment_intent}'`)
         const amount = form.amount ? Number(form.amount) : pi.amount_received - pi.amount_refunded
@@ -263,8 +268,12 @@ const server = createServer(async (req, res) => {
         await deliver(e)
         return send(res, 200, { ok: true })
       }
-      if (seg[1] === 'refunds' && seg[2] === 'fail' && req.method === 'POST') { failRefunds = Number(form.count ?? 1); return send(res, 200, { failRefunds }) }
       if (seg[1] === 'refunds' && seg[2] === 'drop-reply' && req.method === 'POST') { dropRefundReplies = Number(form.count ?? 1); return send(res, 200, { dropRefundReplies }) }
+      if (seg[1] === 'refunds' && seg[2] === 'fail' && req.method === 'POST') {
+        if (typeof form.on === 'boolean') failRefundsOn = form.on
+        else failRefunds = Number(form.count ?? 1)
+        return send(res, 200, { failRefunds, on: failRefundsOn })
+      }
       // What the fake holds for the given checkout sessions: received − refunded over their payment
       // intents. By session, not by booking id: several test databases share one fake.
       if (seg[1] === 'holdings') {
@@ -272,7 +281,7 @@ const server = createServer(async (req, res) => {
         const mine = sessions.map((s) => db.sessions.get(s)?.payment_intent).filter(Boolean).map((p) => db.intents.get(p))
         return send(res, 200, { sessions: sessions.length, intents: mine.length, netMinor: mine.reduce((s, pi) => s + pi.amount_received - pi.amount_refunded, 0) })
       }
-      if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused, lostReplies })
+      if (seg[1] === 'state') return send(res, 200, { sessions: db.sessions.size, intents: db.intents.size, refunds: [...db.refunds.values()], refundsFailed, events: db.events.map((e) => ({ id: e.id, type: e.type, delivered: !!e.delivered })), paused, lostReplies })
       if (seg[1] === 'health') return send(res, 200, { ok: true })
     }
     error(res, 404, 'Not found', 'unknown_route')

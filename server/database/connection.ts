@@ -32,6 +32,13 @@ class ImmediateSqliteDialect extends SqliteDialect {
 export function openDatabase(target: string): Kysely<Database> {
   if (isPostgresUrl(target)) {
     const pool = new pg.Pool({ connectionString: target, max: Number(process.env.PG_POOL_MAX || 10) })
+    // An idle pooled connection that the server drops (a restart, a failover) emits 'error' on the
+    // pool; unhandled, that is an uncaught exception (which ends a plain Node process). The pool discards that client and opens a fresh
+    // one for the next query, so logging is all there is to do.
+    pool.on('error', (e) => console.error('[umbrafield] database connection lost (the pool reconnects):', e.message))
+    // The same for a connection that is checked out but between queries (inside a transaction): the
+    // query in flight fails on its own, and the pool drops the broken client when it is released.
+    pool.on('connect', (client) => client.on('error', (e) => console.error('[umbrafield] database connection lost in use:', e.message)))
     return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) })
   }
   const file = target === ':memory:' ? target : resolve(target)

@@ -118,9 +118,6 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
         messageId: m.message_id, from, to: m.to_name ? { name: m.to_name, address: m.to_email } : m.to_email,
         subject: m.subject, html: bodies.html, text: bodies.text, attachments: JSON.parse(m.attachments),
       })
-      // Sent: the token is in the recipient's mailbox and nowhere here any more.
-      await db.updateTable('outbox').set({ status: 'sent', sent_at: nowIso(), attempts: m.attempts + 1, last_error: null, sending_since: null, sealed_secret: null }).where('id', '=', m.id).execute()
-      sent++
     } catch (e) {
       const attempts = m.attempts + 1
       const give = attempts >= OUTBOX.maxAttempts
@@ -132,9 +129,31 @@ export async function processOutbox(db: Kysely<Database>, transport: Transporter
         ...(give ? { sealed_secret: null } : {}),
       }).where('id', '=', m.id).execute()
       failed++
+      continue
     }
+    // The SMTP server has the message (and the token is now in the recipient's mailbox, cleared here
+    // as it is recorded): only recording that may fail now (the database restarting).
+    // That is never a failed send, or the message would go out twice; keep trying to record it.
+    await markSent(db, m.id, m.attempts + 1)
+    sent++
   }
   return { sent, failed }
+}
+
+/** Tries to record this long before leaving the row "sending" (it is then sent again after stuckAfterMs). */
+const MARK_SENT_TRIES = 60
+const MARK_SENT_PAUSE_MS = 500
+
+async function markSent(db: Kysely<Database>, id: number, attempts: number): Promise<void> {
+  for (let k = 1; ; k++) {
+    try {
+      await db.updateTable('outbox').set({ status: 'sent', sent_at: nowIso(), attempts, last_error: null, sending_since: null, sealed_secret: null }).where('id', '=', id).execute()
+      return
+    } catch (e) {
+      if (k >= MARK_SENT_TRIES) throw e
+      await new Promise((r) => setTimeout(r, MARK_SENT_PAUSE_MS))
+    }
+  }
 }
 
 /** The bodies as sent: the sealed token opened and put where the placeholder stands. */

@@ -1,12 +1,16 @@
 import type { Kysely } from 'kysely'
 import { parseCsvGrid, storeDataset } from '../../services/climatology'
 import type { Database, Role } from '../schema'
-import { DEMO_CLOUD_NAME, DEMO_CLOUD_SOURCE, demoCloudCsv } from './demoCloud'
-import { nowIso } from '../../services/clock'
+import { DEMO_CLOUD_NAME, DEMO_CLOUD_SOURCE, demoCloudCsv, demoCloudCsvFor } from './demoCloud'
+import { addDays, DEMO_LEAD_DAYS, demoCloudRegionFor, demoScenarioFor, demoSitePlan, type DemoKind } from './demoScenario'
+import { businessDate, nowIso } from '../../services/clock'
 
 /**
  * The invented demo scenario (demo data only): Kestrel Sky Journeys, a small company planning
- * trips to the 2027-08-02 total eclipse. Idempotent: every insert is keyed on a natural key.
+ * trips to the 2027-08-02 total eclipse and the 2027-02-06 annular one. Once a trip of that
+ * scenario has begun on the business date, the demo invents one for the next eclipse of that kind
+ * instead (demoScenario.ts), so it never shows only past trips. Idempotent: every insert is keyed
+ * on a natural key.
  */
 export const DEMO_PASSWORD = 'eclipse-demo'
 export const DEMO_ACCOUNTS: Array<{ email: string; name: string; role: Role }> = [
@@ -55,6 +59,9 @@ async function seedWorkspace(trx: Kysely<Database>, organiserId: number, w: { ec
 }
 
 export async function seedDemo(db: Kysely<Database>): Promise<void> {
+  const scenario = demoScenarioFor(businessDate())
+  const classicTotal = scenario.total?.source === 'classic'
+  const classicAnnular = scenario.annular?.source === 'classic'
   const hash = await hashPassword(DEMO_PASSWORD)
   await db.transaction().execute(async (trx) => {
     for (const a of DEMO_ACCOUNTS) {
@@ -63,22 +70,109 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
         .onConflict((oc) => oc.column('email').doNothing()).execute()
     }
     const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
-    await seedWorkspace(trx, organiser.id, DEMO_WORKSPACE, DEMO_SITES)
-    await seedWorkspace(trx, organiser.id, DEMO_ANNULAR_WORKSPACE, DEMO_ANNULAR_SITES)
+    if (classicTotal) await seedWorkspace(trx, organiser.id, DEMO_WORKSPACE, DEMO_SITES)
+    if (classicAnnular) await seedWorkspace(trx, organiser.id, DEMO_ANNULAR_WORKSPACE, DEMO_ANNULAR_SITES)
   })
-  // The invented demo cloud grid, chosen for the demo workspace.
-  let cloud = await db.selectFrom('climatology_datasets').select('id').where('demo', '=', 1).executeTakeFirst()
-  if (!cloud) {
+  if (classicTotal) {
+    // The invented demo cloud grid, chosen for the demo workspace.
+    let cloud = await db.selectFrom('climatology_datasets').select('id').where('demo', '=', 1).where('name', '=', DEMO_CLOUD_NAME).executeTakeFirst()
+    if (!cloud) {
+      const id = await storeDataset(db, null, {
+        name: DEMO_CLOUD_NAME, source: DEMO_CLOUD_SOURCE, licence: 'none (invented)', years: 'none (invented)',
+        timeOfDay: 'around the local time of the eclipse (invented)', demo: true,
+      }, parseCsvGrid(demoCloudCsv()))
+      cloud = { id }
+    }
+    await db.updateTable('workspaces').set({ climatology_id: cloud.id })
+      .where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).where('climatology_id', 'is', null).execute()
+    await seedDemoTrip(db)
+  }
+  if (classicAnnular) await seedDemoAnnularTrip(db)
+  for (const kind of ['total', 'annular'] as const) {
+    const pick = scenario[kind]
+    if (pick?.source === 'generated') await seedGeneratedTrip(db, kind, pick.eclipseId)
+  }
+}
+
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
+const longDate = (id: string) => `${Number(id.slice(8, 10))} ${MONTHS[Number(id.slice(5, 7)) - 1]} ${id.slice(0, 4)}`
+
+/** Names of the invented workspace and trip for a later eclipse (also the natural keys that keep the seed idempotent). */
+export function generatedDemoNames(kind: DemoKind, eclipseId: string, town: string) {
+  const month = `${MONTHS[Number(eclipseId.slice(5, 7)) - 1]} ${eclipseId.slice(0, 4)}`
+  return {
+    workspace: `Demo — ${kind} eclipse of ${longDate(eclipseId)}`,
+    trip: kind === 'total' ? `Totality near ${town}, ${month} (demo)` : `Ring of sunlight near ${town}, ${month} (demo)`,
+    cloud: `Demo data — not a real climatology (invented ${MONTHS[Number(eclipseId.slice(5, 7)) - 1]} cloud for the ${eclipseId} path)`,
+  }
+}
+
+/**
+ * Demo: a published, invented trip to a later eclipse (demoScenario.ts picks it and its sites on the
+ * centreline). Dates, deposit, balance date and cancellation tiers count back from the eclipse;
+ * the demo guide leads it and traveller2 holds a confirmed booking, so the briefing shows.
+ */
+async function seedGeneratedTrip(db: Kysely<Database>, kind: DemoKind, eclipseId: string) {
+  const plan = demoSitePlan(eclipseId)
+  if (!plan) return
+  const [primary, ...fallbacks] = plan
+  const names = generatedDemoNames(kind, eclipseId, primary!.town.name)
+  const minutes = (s: number) => `${Math.floor(s / 60)} min ${Math.round(s % 60)} s`
+  const sites: typeof DEMO_SITES = plan.map((p, i) => ({
+    name: `Near ${p.town.name}`, lat: Math.round(p.lat * 1e4) / 1e4, lon: Math.round(p.lon * 1e4) / 1e4, elevationM: 0,
+    notes: `Demo: invented site on the centreline, ${Math.round(p.town.distanceKm)} km from ${p.town.name} (${p.town.country}); `
+      + `${kind === 'total' ? 'totality' : 'annular phase'} ${minutes(p.durationSec)}, Sun ${Math.round(p.sunAltitudeDeg)}° high; height not surveyed.`,
+    road: i === 0 ? 'paved' : 'gravel', capacity: 100 - 20 * i, border: false, pinned: i === 0,
+  }))
+  const region = demoCloudRegionFor(eclipseId)
+  const month = Number(eclipseId.slice(5, 7))
+  let cloud = await db.selectFrom('climatology_datasets').select('id').where('demo', '=', 1).where('name', '=', names.cloud).executeTakeFirst()
+  if (!cloud && region) {
     const id = await storeDataset(db, null, {
-      name: DEMO_CLOUD_NAME, source: DEMO_CLOUD_SOURCE, licence: 'none (invented)', years: 'none (invented)',
+      name: names.cloud, source: DEMO_CLOUD_SOURCE, licence: 'none (invented)', years: 'none (invented)',
       timeOfDay: 'around the local time of the eclipse (invented)', demo: true,
-    }, parseCsvGrid(demoCloudCsv()))
+    }, parseCsvGrid(demoCloudCsvFor(eclipseId, month, region)))
     cloud = { id }
   }
-  await db.updateTable('workspaces').set({ climatology_id: cloud.id })
-    .where('eclipse_id', '=', DEMO_WORKSPACE.eclipseId).where('name', '=', DEMO_WORKSPACE.name).where('climatology_id', 'is', null).execute()
-  await seedDemoTrip(db)
-  await seedDemoAnnularTrip(db)
+  await db.transaction().execute(async (trx) => {
+    const organiser = await trx.selectFrom('users').select('id').where('email', '=', 'organiser@umbrafield.test').executeTakeFirstOrThrow()
+    const wsId = await seedWorkspace(trx, organiser.id, { eclipseId, name: names.workspace }, sites)
+    if (cloud) await trx.updateTable('workspaces').set({ climatology_id: cloud.id }).where('id', '=', wsId).where('climatology_id', 'is', null).execute()
+    if (await trx.selectFrom('trips').select('id').where('title', '=', names.trip).executeTakeFirst()) return
+    const siteId = async (name: string) => (await trx.selectFrom('sites').select('id').where('workspace_id', '=', wsId).where('name', '=', name).executeTakeFirstOrThrow()).id
+    const guide = await trx.selectFrom('users').select('id').where('email', '=', 'guide@umbrafield.test').executeTakeFirstOrThrow()
+    const total = kind === 'total'
+    const price = total ? 249_000 : 189_000
+    const deposit = total ? 50_000 : 40_000
+    const currency = total ? 'eur' : 'usd'
+    // Meet in town early enough to drive out (about 60 km/h) and set up two hours before the central phase.
+    const meetMs = Date.parse(primary!.utc) - (2 + primary!.town.distanceKm / 60) * 3_600_000
+    const trip = await trx.insertInto('trips').values({
+      workspace_id: wsId, eclipse_id: eclipseId, primary_site_id: await siteId(sites[0]!.name), title: names.trip,
+      description: `Demo trip by the invented company Kestrel Sky Journeys to the ${kind} eclipse of ${longDate(eclipseId)}, `
+        + `watched from the centreline near ${primary!.town.name}. ${total ? 'Filters come off only during totality.' : 'Filters stay on throughout an annular eclipse.'} `
+        + 'Sites, prices and terms are invented.',
+      start_date: addDays(eclipseId, -DEMO_LEAD_DAYS), end_date: addDays(eclipseId, DEMO_LEAD_DAYS),
+      meeting_name: `Town centre, ${primary!.town.name} (demo)`, meeting_lat: primary!.town.lat, meeting_lon: primary!.town.lon,
+      meeting_time_utc: new Date(Math.floor(meetMs / 900_000) * 900_000).toISOString(), seats: total ? 24 : 16,
+      price_minor: price, deposit_minor: deposit, currency, balance_due_date: addDays(eclipseId, -90),
+      cancellation_tiers: JSON.stringify([{ until: addDays(eclipseId, -180), refundPct: 100 }, { until: addDays(eclipseId, -120), refundPct: 50 }]),
+      min_group_size: total ? 8 : 6, status: 'published', created_by: organiser.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    for (const [rank, f] of fallbacks.entries()) {
+      await trx.insertInto('trip_backup_sites').values({ trip_id: trip.id, site_id: await siteId(`Near ${f.town.name}`), rank }).execute()
+    }
+    await trx.insertInto('trip_guides').values({ trip_id: trip.id, user_id: guide.id }).execute()
+    const samir = await trx.selectFrom('users').select('id').where('email', '=', 'traveller2@umbrafield.test').executeTakeFirstOrThrow()
+    const b = await trx.insertInto('bookings').values({
+      trip_id: trip.id, user_id: samir.id, seats: 2, status: 'confirmed', hold_expires_at: null, price_minor: 2 * price, deposit_minor: 2 * deposit,
+      paid_minor: 2 * deposit, currency,
+    }).returning('id').executeTakeFirstOrThrow()
+    await trx.insertInto('payments').values({
+      booking_id: b.id, kind: 'deposit', amount_minor: 2 * deposit, currency, status: 'succeeded', checkout_session_id: null,
+      payment_intent_id: null, demo: 1, completed_at: nowIso(), idem_key: `demo-seed-${b.id}`,
+    }).execute()
+  })
 }
 
 /** Demo: a published annular trip (no bookings), so every output can be seen in its annular wording. */
