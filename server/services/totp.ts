@@ -1,4 +1,8 @@
-import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto'
+import { createHash, randomBytes, timingSafeEqual } from 'node:crypto'
+import { base32 } from '@otplib/plugin-base32-scure'
+import { NodeCryptoPlugin } from '@otplib/plugin-crypto-node'
+import { generateSync } from '@otplib/totp'
+import { generateTOTP } from '@otplib/uri'
 import type { Kysely, Transaction } from 'kysely'
 import QRCode from 'qrcode'
 import type { Database, Role, User } from '../database/schema'
@@ -14,8 +18,9 @@ import { getSetting, putSetting } from './settings'
  * comes from the clock service. A code is accepted for its own step and one step either side (clock
  * drift between phone and server, RFC 6238 §5.2), and only once: the last accepted step is stored.
  *
- * Written on node:crypto rather than a TOTP package: the one installed brings a second major version
- * of a hashing library that the PDF renderer also uses, and the server bundle can hold only one.
+ * Codes, Base32 and the key URI come from otplib's own packages with its node:crypto plugin (the
+ * umbrella package's default hashing plugin is a second major version of a library the PDF renderer
+ * also uses, and the server bundle can hold only one; the tests use the umbrella package to check).
  *
  * The secret is sealed at rest (AES-256-GCM, ./sealed) bound to "totp:<user id>"; a secret offered
  * for set-up but not yet confirmed is sealed to "totp-pending:<user id>", so one cannot be copied
@@ -34,55 +39,27 @@ export class TotpError extends Error {
   constructor(public statusCode: number, public code: string, message: string, public field?: string) { super(message) }
 }
 
-/** RFC 4648 §6 Base32 (no padding), the form authenticator apps take secrets in. */
-const BASE32 = 'ABCDEFGHIJKLMNOPQRSTUVWXYZ234567'
+/** RFC 4648 §6 Base32 (no padding), the form authenticator apps take secrets in (otplib's scure plugin). */
 export function base32Encode(bytes: Uint8Array): string {
-  let bits = 0
-  let value = 0
-  let out = ''
-  for (const b of bytes) {
-    value = ((value << 8) | b) & 0xffff
-    bits += 8
-    while (bits >= 5) { out += BASE32[(value >>> (bits - 5)) & 31]; bits -= 5 }
-  }
-  return bits > 0 ? out + BASE32[(value << (5 - bits)) & 31] : out
+  return base32.encode(bytes, { padding: false })
 }
 export function base32Decode(text: string): Buffer {
-  const out: number[] = []
-  let bits = 0
-  let value = 0
-  for (const ch of text.toUpperCase().replace(/[\s=]/g, '')) {
-    const v = BASE32.indexOf(ch)
-    if (v < 0) throw new Error('Not Base32')
-    value = ((value << 5) | v) & 0xffff
-    bits += 5
-    if (bits >= 8) { out.push((value >>> (bits - 8)) & 255); bits -= 8 }
-  }
-  return Buffer.from(out)
+  return Buffer.from(base32.decode(text.toUpperCase().replace(/[\s=]/g, '')))
 }
 
 type Algorithm = 'sha1' | 'sha256' | 'sha512'
-
-/** HOTP (RFC 4226 §5.3): HMAC of the 8-byte big-endian counter, dynamic truncation, modulo 10^digits. */
-function hotp(key: Uint8Array, counter: number, digits: number, algorithm: Algorithm): string {
-  const msg = Buffer.alloc(8)
-  msg.writeBigUInt64BE(BigInt(counter))
-  const mac = createHmac(algorithm, key).update(msg).digest()
-  const offset = mac[mac.length - 1]! & 0x0f
-  const bin = ((mac[offset]! & 0x7f) << 24) | (mac[offset + 1]! << 16) | (mac[offset + 2]! << 8) | mac[offset + 3]!
-  return String(bin % 10 ** digits).padStart(digits, '0')
-}
+const crypto = new NodeCryptoPlugin()
 
 /** The time step of `atMs` (ms since the Unix epoch, UTC): floor(seconds / 30), T0 = 0. */
 export const timeStep = (atMs: number) => Math.floor(Math.floor(atMs / 1000) / TOTP.periodSec)
 
 /**
  * The TOTP value of `secret` (Base32 text, or raw key bytes) at `atMs` (ms since the Unix epoch,
- * UTC): HOTP of the time step (RFC 6238 §4.2).
+ * UTC): HOTP of the time step (RFC 6238 §4.2), computed by otplib on node:crypto.
  */
-export function totpCode(secret: string | Uint8Array, atMs: number, opts: { digits?: number; algorithm?: Algorithm } = {}): string {
+export function totpCode(secret: string | Uint8Array, atMs: number, opts: { digits?: 6 | 8; algorithm?: Algorithm } = {}): string {
   const key = typeof secret === 'string' ? base32Decode(secret) : secret
-  return hotp(key, timeStep(atMs), opts.digits ?? TOTP.digits, opts.algorithm ?? 'sha1')
+  return generateSync({ secret: key, epoch: Math.floor(atMs / 1000), period: TOTP.periodSec, digits: opts.digits ?? TOTP.digits, algorithm: opts.algorithm ?? 'sha1', crypto })
 }
 
 /**
@@ -96,7 +73,7 @@ export function matchStep(secret: string, token: string, atMs: number, afterStep
   for (let d = -TOTP.driftSteps; d <= TOTP.driftSteps; d++) {
     const step = now + d
     if (afterStep !== null && step <= afterStep) continue
-    if (timingSafeEqual(Buffer.from(hotp(key, step, TOTP.digits, 'sha1')), Buffer.from(token))) return step
+    if (timingSafeEqual(Buffer.from(totpCode(key, step * TOTP.periodSec * 1000)), Buffer.from(token))) return step
   }
   return null
 }
@@ -160,8 +137,7 @@ export async function startTotpSetup(db: Kysely<Database>, user: User): Promise<
   await db.insertInto('user_totp').values({ user_id: user.id, secret_sealed: null, enabled_at: null, last_step: null, ...pending })
     .onConflict((oc) => oc.column('user_id').doUpdateSet(pending)).execute()
   // Key URI format understood by authenticator apps: otpauth://totp/<issuer>:<account>?secret=…&issuer=…
-  const params = new URLSearchParams({ secret, issuer: TOTP.issuer, algorithm: 'SHA1', digits: String(TOTP.digits), period: String(TOTP.periodSec) })
-  const otpauthUrl = `otpauth://totp/${encodeURIComponent(TOTP.issuer)}:${encodeURIComponent(user.email)}?${params}`
+  const otpauthUrl = generateTOTP({ issuer: TOTP.issuer, label: user.email, secret, algorithm: 'sha1', digits: TOTP.digits, period: TOTP.periodSec })
   const qrSvg = await QRCode.toString(otpauthUrl, { type: 'svg', errorCorrectionLevel: 'M', margin: 2 })
   return { secret, otpauthUrl, qrSvg }
 }

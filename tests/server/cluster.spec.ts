@@ -12,7 +12,7 @@ import { enqueueMail, processOutbox } from '../../server/services/outbox'
 import { url } from '@nuxt/test-utils/e2e'
 import { fakeServices } from '../../scripts/fakes.mjs'
 import { freePort } from '../../scripts/free-port.mjs'
-import { api, freshPostgresDatabase, ORGANISER, signIn, TEST_DB, TEST_PORTS, useApp } from './app'
+import { api, freshPostgresDatabase, inviteAndChoosePassword, ORGANISER, signIn, TEST_DB, TEST_PORTS, useApp } from './app'
 
 // What several app instances on one database rely on, checked on the database this run uses
 // (SQLite, or PostgreSQL under scripts/with-postgres.mjs). The app is started for the health check
@@ -131,8 +131,8 @@ describe(`several instances on one database (${TEST_DB})`, () => {
       const tripId = trip.body.id as number
       const racer = async (i: number) => {
         const email = `last-seat-${i}-${tripId}@umbrafield.test`
-        const inv = await api('/api/users', { method: 'POST', body: { name: `Last seat ${i}`, email, role: 'guide' }, cookie: org })
-        return signIn(email, inv.body.temporaryPassword, `198.51.100.${i + 1}`)
+        await inviteAndChoosePassword(org, { name: `Last seat ${i}`, email, role: 'guide' }, `last-seat-${i}-password`)
+        return signIn(email, `last-seat-${i}-password`, `198.51.100.${i + 1}`)
       }
       // Seven seats go first; twenty travellers then race for the last three, all at once.
       const early = await racer(0)

@@ -2,7 +2,7 @@ import { readdirSync, readFileSync, readlinkSync } from 'node:fs'
 import zlib from 'node:zlib'
 import { url } from '@nuxt/test-utils/e2e'
 import { describe, expect, it } from 'vitest'
-import { api, GUIDE, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TEST_PORTS, TRAVELLER, until, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TEST_PORTS, TRAVELLER, until, useApp } from './app'
 
 // Abuse that must fail. Waitlist joins are limited to 3 per account here (the limit itself is tested);
 // racers sign in from their own addresses, as a trusted proxy reports them.
@@ -28,10 +28,11 @@ let accounts = 0
 async function confirmedAccount(org: string, opts: { name?: string; role?: 'traveller' | 'guide' } = {}) {
   const n = ++accounts
   const email = `guard${n}-${Date.now()}@umbrafield.test`
-  const inv = await api('/api/users', { method: 'POST', body: { name: opts.name ?? `Guard ${n}`, email, role: 'guide' }, cookie: org })
+  const password = `guard-${n}-password`
+  const inv = await inviteAndChoosePassword(org, { name: opts.name ?? `Guard ${n}`, email, role: 'guide' }, password)
   expect(inv.status).toBe(201)
   if ((opts.role ?? 'traveller') === 'traveller') expect((await api(`/api/users/${inv.body.user.id}`, { method: 'PATCH', body: { role: 'traveller' }, cookie: org })).status).toBe(200)
-  return { id: inv.body.user.id as number, name: inv.body.user.name as string, cookie: await signIn(email, inv.body.temporaryPassword, `198.51.100.${(n % 250) + 1}`) }
+  return { id: inv.body.user.id as number, name: inv.body.user.name as string, cookie: await signIn(email, password, `198.51.100.${(n % 250) + 1}`) }
 }
 
 /** The booking once every payment the fake took for these sessions is on the ledger and nothing is still owed back. */

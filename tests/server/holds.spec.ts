@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
-import { advanceClock, api, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TRAVELLER, TRAVELLER2, until, useApp } from './app'
+import { advanceClock, api, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
 // Holds of 5 minutes and waitlist offers of 24 hours, lapsed by moving the app's clock; at most 3
 // hold requests per account in 10 minutes (the window of the route's limit).
@@ -52,10 +52,13 @@ describe('lapsed holds', () => {
 /** An invited (so confirmed) account of its own, signed in; returns its cookie and user id. */
 async function freshAccount(org: string, label: string) {
   const email = `${label}-${Math.random().toString(36).slice(2, 8)}@umbrafield.test`
-  const inv = await api('/api/users', { method: 'POST', body: { name: `${label} (test)`, email, role: 'guide' }, cookie: org })
+  const password = `${label}-password`
+  const inv = await inviteAndChoosePassword(org, { name: `${label} (test)`, email, role: 'guide' }, password)
   expect(inv.status).toBe(201)
   const user = await db.selectFrom('users').select('id').where('email', '=', email).executeTakeFirstOrThrow()
-  return { email, id: user.id, cookie: await signIn(email, inv.body.temporaryPassword) }
+  // Invitations are for staff; made a traveller, the account may hold seats and be offered them.
+  expect((await api(`/api/users/${user.id}`, { method: 'PATCH', body: { role: 'traveller' }, cookie: org })).status).toBe(200)
+  return { email, id: user.id, cookie: await signIn(email, password) }
 }
 
 async function publishedTrip(org: string, seats: number) {

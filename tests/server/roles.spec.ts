@@ -251,7 +251,7 @@ beforeAll(async () => {
 
   // A message that failed to send, for the retry row (the fake mail server delivers everything).
   // One without a one-time link: those cannot be retried once failed (their sealed link is cleared).
-  const msg = await db.selectFrom('outbox').select('id').where('sealed_secret', 'is', null).orderBy('id').executeTakeFirstOrThrow()
+  const msg = await db.selectFrom('outbox').select('id').where('text', 'not like', '%{{secret_token}}%').orderBy('id').executeTakeFirstOrThrow()
   await db.updateTable('outbox').set({ status: 'failed', last_error: 'roles matrix: marked failed' }).where('id', '=', msg.id).execute()
   fx.outboxId = msg.id
 }, 120_000)
