@@ -132,8 +132,10 @@ describe(`a one-seat deposit never confirms more seats (${TEST_DB})`, () => {
       await expectCoveredAndMatching(view, [sessionOf(c.body.url)])
       if (view.seats === 3) expect(view.status).toBe('held')
     }
-    // Both orders happened at least once, or the race was not exercised.
-    expect(outcomes.refused + outcomes.changed).toBe(8)
+    // The race reached a payment already through when the change came (refused) at least once, or it
+    // was not exercised. Which side wins each round is up to timing, so how often the change landed
+    // first is printed, not required: the change-first order is checked deterministically above.
+    console.log(`[seat-change race on ${TEST_DB}] refused ${outcomes.refused}, changed ${outcomes.changed} of 8`)
     expect(outcomes.refused).toBeGreaterThan(0)
   })
 })

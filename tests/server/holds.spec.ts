@@ -1,3 +1,4 @@
+import { url } from '@nuxt/test-utils/e2e'
 import { afterAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
 import { advanceClock, api, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TEST_DB, TRAVELLER, TRAVELLER2, until, useApp } from './app'
@@ -144,5 +145,14 @@ describe(`the hold limit (${TEST_DB})`, () => {
     // A full window after the burst, requests pass again (and the first hold has lapsed: a new one).
     await advanceClock(HOLD_WINDOW_MS)
     expect((await hold()).status).toBe(201)
+  })
+})
+
+describe('the test clock', () => {
+  it('will not move for a body a cross-site page could send (text/plain): an ordinary 404, and the clock stays', async () => {
+    const before = Date.parse(await advanceClock(0))
+    const r = await fetch(url('/_test/clock'), { method: 'POST', headers: { 'content-type': 'text/plain' }, body: JSON.stringify({ advanceMs: 86_400_000 }) })
+    expect(r.status).toBe(404)
+    expect(Date.parse(await advanceClock(0)) - before).toBeLessThan(86_400_000)
   })
 })

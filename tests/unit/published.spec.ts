@@ -217,10 +217,13 @@ describe('contact times at named sites against the U.S. Naval Observatory (whole
   //  - the engine's stated element-set term: 0.2 km on the fundamental plane over the shadow's speed
   //    relative to the site at that contact (contactUncertainty, shared/eclipse/uncertainty.ts);
   //    no Earth-rotation term, since USNO's own ΔT is used;
-  //  - the solar-radius convention: USNO does not state the Sun's radius it uses. The engine uses
+  //  - the solar-radius convention (added after the first comparison showed every C1 about 1 s early and
+  //    every C4 about 1 s late, the pattern a larger Sun gives; it is an allowance of this comparison,
+  //    not part of the engine's stated ± shown to users): USNO does not state the Sun's radius it uses. The engine uses
   //    959.63″ at 1 au (696,000 km; the Five Millennium Canon and NASA's bulletins); the IAU 2015
   //    nominal solar radius (Resolution B3) is 695,700 km, 959.23″. The term is the change in that
-  //    contact when the engine's elements are rebuilt with 959.23″, computed here for each contact;
+  //    contact when the engine's elements are rebuilt with 959.23″, computed here for each contact and
+  //    applied on that side only (a table made with a radius between the two lies between the two times);
   //  - at C2/C3 the engine's stated limb term (±2 s, LIMB_PROFILE_SEC): USNO does not state the lunar
   //    radius k it uses for the umbral contacts either, and the mean-limb k is the smooth stand-in for
   //    the limb profile (the engine's 0.2722810 is NASA's mean-valley value).
@@ -259,11 +262,16 @@ describe('contact times at named sites against the U.S. Naval Observatory (whole
         const ours = lc[k]
         expect(ours, `${row.site} ${row.eclipse} ${k}`).toBeTruthy()
         const diffSec = (ours!.utcMs - publishedUtcMs(hms)) / 1000
-        const radiusSec = Math.abs(alt[k]!.utcMs - ours!.utcMs) / 1000
+        // Signed: a table made with a radius between the two published values lies between our time
+        // and the time with 959.23″, so only that side of ours is widened (an error the other way fails).
+        const shiftSec = (ours!.utcMs - alt[k]!.utcMs) / 1000
+        const radiusSec = Math.abs(shiftSec)
         const limbSec = k === 'c2' || k === 'c3' ? LIMB_PROFILE_SEC : 0
-        const bound = ROUNDING_SEC + unc.contacts[k]!.elementsSec + radiusSec + limbSec
+        const base = ROUNDING_SEC + unc.contacts[k]!.elementsSec + limbSec
+        const bound = base + radiusSec
         console.log(`[USNO ${row.eclipse} ${row.site}] ${k}: published ${hms} UT1 = ${new Date(publishedUtcMs(hms)).toISOString().slice(11, 22)} UTC, ours ${ours!.utc.slice(11, 21)} (${diffSec >= 0 ? '+' : ''}${diffSec.toFixed(2)} s; bound ${bound.toFixed(2)} s = 0.05 + ${unc.contacts[k]!.elementsSec.toFixed(2)} elements + ${radiusSec.toFixed(2)} R☉ + ${limbSec} limb)`)
-        expect(Math.abs(diffSec), `${row.site} ${row.eclipse} ${k}`).toBeLessThanOrEqual(bound)
+        expect(diffSec, `${row.site} ${row.eclipse} ${k}`).toBeGreaterThanOrEqual(Math.min(0, shiftSec) - base)
+        expect(diffSec, `${row.site} ${row.eclipse} ${k}`).toBeLessThanOrEqual(Math.max(0, shiftSec) + base)
         worst[k] = Math.max(worst[k], Math.abs(diffSec))
         count++
       }
