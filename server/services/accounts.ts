@@ -151,16 +151,21 @@ export const PASSWORD_LINK = { resetMinutes: 60, inviteDays: 7 }
 
 type Db = Transaction<Database> | Kysely<Database>
 
-/** Ends every unused password link of a user (a newer one replaces them, or one was just used). */
-async function endPasswordLinks(trx: Db, userId: number, now: string) {
-  await trx.updateTable('account_tokens').set({ used_at: now }).where('user_id', '=', userId).where('used_at', 'is', null).execute()
+/**
+ * Ends a user's unused password links: those of one purpose when a newer link of that purpose
+ * replaces them (so asking for a reset never kills a pending invitation), or all of them once one was used.
+ */
+async function endPasswordLinks(trx: Db, userId: number, now: string, purpose?: 'reset' | 'invite') {
+  let q = trx.updateTable('account_tokens').set({ used_at: now }).where('user_id', '=', userId).where('used_at', 'is', null)
+  if (purpose) q = q.where('purpose', '=', purpose)
+  await q.execute()
 }
 
 async function issuePasswordLink(trx: Db, userId: number, purpose: 'reset' | 'invite'): Promise<string> {
   const now = nowMs()
   const token = randomBytes(24).toString('base64url')
   const lifeMs = purpose === 'reset' ? PASSWORD_LINK.resetMinutes * 60_000 : PASSWORD_LINK.inviteDays * 24 * 3600_000
-  await endPasswordLinks(trx, userId, new Date(now).toISOString())
+  await endPasswordLinks(trx, userId, new Date(now).toISOString(), purpose)
   await trx.insertInto('account_tokens').values({ token_hash: tokenHash(token), user_id: userId, purpose, expires_at: new Date(now + lifeMs).toISOString(), created_at: new Date(now).toISOString() }).execute()
   return token
 }
@@ -197,7 +202,7 @@ export async function requestPasswordReset(db: Kysely<Database>, email: string, 
         ...passwordResetMail({ name: user.name, url: passwordUrl(appUrl, 'reset'), minutes: PASSWORD_LINK.resetMinutes }) })
     } else {
       // The same statements as for a known address (the links of "no one" end: none), then the mail.
-      await endPasswordLinks(trx, -1, nowIso())
+      await endPasswordLinks(trx, -1, nowIso(), 'reset')
       await enqueueMail(trx, { kind: 'password-reset', to: { email }, ...passwordResetNoAccountMail({ signUpUrl: `${appUrl}/register` }) })
     }
   })
@@ -223,12 +228,21 @@ export async function resetPassword(db: Kysely<Database>, token: string, passwor
       .returning(['user_id', 'purpose']).executeTakeFirst()
     if (!spent) throw new InvalidTokenError('This link is not valid any more: ask for a new one')
     await endPasswordLinks(trx, spent.user_id, now)
+    const before = await trx.selectFrom('users').select('email_confirmed_at').where('id', '=', spent.user_id).executeTakeFirstOrThrow()
+    if (!before.email_confirmed_at) {
+      // Whoever set up this account never proved the address: a second factor they turned on is not
+      // the owner's, and must not lock the owner out now that the link proved it.
+      await trx.deleteFrom('totp_recovery_codes').where('user_id', '=', spent.user_id).execute()
+      await trx.deleteFrom('user_totp').where('user_id', '=', spent.user_id).execute()
+    }
     const user = await trx.updateTable('users').set((eb) => ({
       password_hash: passwordHash, session_version: eb('session_version', '+', 1),
       email_confirmed_at: eb.fn.coalesce('email_confirmed_at', eb.val(now)),
     })).where('id', '=', spent.user_id).returningAll().executeTakeFirstOrThrow()
-    // A new password starts afresh: earlier failed sign-ins no longer hold the account back.
-    await trx.deleteFrom('sign_in_failures').where('email', '=', user.email).execute()
+    // A new password starts afresh: earlier failed sign-ins no longer hold the account back. Not with
+    // two-factor on: those failures may be guesses at the code, and a reset must not renew them.
+    const twoFactor = await trx.selectFrom('user_totp').select('enabled_at').where('user_id', '=', user.id).executeTakeFirst()
+    if (!twoFactor?.enabled_at) await trx.deleteFrom('sign_in_failures').where('email', '=', user.email).execute()
     await audit(trx, { action: spent.purpose === 'invite' ? 'invitation_accepted' : 'password_reset', actorUserId: user.id, subjectUserId: user.id, ip })
     return user
   })

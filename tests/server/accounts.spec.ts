@@ -270,3 +270,17 @@ describe(`one-time tokens at rest (${TEST_DB})`, () => {
     await signIn('sealed-invitee@umbrafield.test', 'sealed-invitee-pw')
   })
 })
+
+describe('links that others cannot end', () => {
+  it('asking for a reset with an invitee\'s address does not end their invitation', async () => {
+    const org = await signIn(ORGANISER)
+    const email = `invitee-kept-${Date.now()}@umbrafield.test`
+    expect((await api('/api/users', { method: 'POST', body: { name: 'Kept Invitee (test)', email, role: 'guide' }, cookie: org })).status).toBe(201)
+    const invitation = await caughtMail(email, /invited/)
+    expect((await reset(email, '203.0.113.77')).status).toBe(202)
+    await caughtMail(email, /new password/, { ignore: [invitation.id] })
+    // The invitation's own link still works after someone asked for a reset in the invitee's name.
+    expect((await confirm(linkToken(invitation), 'kept-invitation-password')).status).toBe(200)
+    expect(await signIn(email, 'kept-invitation-password')).toBeTruthy()
+  })
+})
