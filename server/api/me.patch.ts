@@ -1,5 +1,5 @@
 import { AccountPatch } from '#shared/schemas/auth'
-import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../services/accounts'
+import { recordFailure, recordSuccess } from '../services/accounts'
 import { audit } from '../services/audit'
 
 export default defineEventHandler(async (event) => {
@@ -11,15 +11,7 @@ export default defineEventHandler(async (event) => {
   if (patch.newPassword) {
     // The current-password check is throttled like sign-in, keyed by the account.
     const key = `password:${user.id}`
-    try {
-      await beginAttempt(db, key, clientIp(event))
-    } catch (e) {
-      if (e instanceof ThrottledError) {
-        setResponseHeader(event, 'Retry-After', e.retryAfterSec)
-        throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: `Too many failed attempts. Try again in ${e.retryAfterSec} s.` })
-      }
-      throw e
-    }
+    await beginAttemptOr429(event, db, key, clientIp(event))
     if (!(await verifyPassword(user.password_hash, patch.currentPassword ?? ''))) {
       await recordFailure(db, key, clientIp(event))
       throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'Current password is not right', data: { fields: { currentPassword: 'Current password is not right' } } })

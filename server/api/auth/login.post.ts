@@ -1,5 +1,5 @@
 import { LoginBody } from '#shared/schemas/auth'
-import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../../services/accounts'
+import { recordFailure, recordSuccess } from '../../services/accounts'
 import { checkSecondFactor, totpEnabled } from '../../services/totp'
 
 const GENERIC = 'E-mail or password is not right'
@@ -12,15 +12,7 @@ export default defineEventHandler(async (event) => {
   const { email, password, totp } = await readBodyAs(event, LoginBody)
   const db = useDb()
   const ip = clientIp(event)
-  try {
-    await beginAttempt(db, email, ip)
-  } catch (e) {
-    if (e instanceof ThrottledError) {
-      setResponseHeader(event, 'Retry-After', e.retryAfterSec)
-      throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: `Too many failed attempts. Try again in ${e.retryAfterSec} s.` })
-    }
-    throw e
-  }
+  await beginAttemptOr429(event, db, email, ip)
   const user = await db.selectFrom('users').selectAll().where('email', '=', email).executeTakeFirst()
   const ok = user ? await verifyPassword(user.password_hash, password) : (await verifyPassword(await dummyHash(), password), false)
   if (!user || !ok) {

@@ -1,5 +1,5 @@
 import { TotpDisableBody } from '#shared/schemas/totp'
-import { beginAttempt, recordFailure, recordSuccess, ThrottledError } from '../../../services/accounts'
+import { recordFailure, recordSuccess } from '../../../services/accounts'
 import { assertMayDisable, checkSecondFactor, disableTotp } from '../../../services/totp'
 
 /** Turns two-factor off: needs the password and a current code (or a recovery code). */
@@ -11,15 +11,7 @@ export default defineEventHandler(async (event) => {
   await withServiceErrors(() => assertMayDisable(db, user))
   // Throttled like the current-password check when changing the password (same key).
   const key = `password:${user.id}`
-  try {
-    await beginAttempt(db, key, ip)
-  } catch (e) {
-    if (e instanceof ThrottledError) {
-      setResponseHeader(event, 'Retry-After', e.retryAfterSec)
-      throw createError({ statusCode: 429, statusMessage: 'Too many attempts', message: `Too many failed attempts. Try again in ${e.retryAfterSec} s.` })
-    }
-    throw e
-  }
+  await beginAttemptOr429(event, db, key, ip)
   if (!(await verifyPassword(user.password_hash, password))) {
     await recordFailure(db, key, ip)
     throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'Password is not right', data: { fields: { password: 'Password is not right' } } })
