@@ -11,11 +11,12 @@ import { LocalLimiter } from './localLimiter'
  * - SQLite (the embedded, one-process set-up): a sliding window kept in this process's memory
  *   (LocalLimiter), for at most LOCAL_KEYS_MAX keys, the one used longest ago forgotten first. A key
  *   takes about 200 bytes in normal use and at most a few kB (a hit in every 1/60 of its window).
- * - PostgreSQL (several instances): counted in the database (rate_limit_hits) with one atomic upsert
- *   per request, so every instance sees the same count; a sliding window estimated from the current
- *   and the previous fixed window.
+ * - PostgreSQL (several instances): counted in the database (rate_limit_hits, one row per key and
+ *   1/60 of the window) with one atomic upsert per request, so every instance sees the same count;
+ *   the same sliding window as the local one, so both set-ups refuse the same requests.
  */
 export const LOCAL_KEYS_MAX = 50_000
+const SHARED_SLOTS = 60
 const local = new LocalLimiter(LOCAL_KEYS_MAX)
 
 function refuse(event: H3Event, retryAfterSec: number): never {
@@ -32,20 +33,25 @@ export async function rateLimit(event: H3Event, key: string, limit: number, wind
 }
 
 async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string, limit: number, windowMs: number): Promise<void> {
+  // The same sliding window as LocalLimiter: counts per 1/SHARED_SLOTS of the window, the slot that
+  // straddles the window's start counted in full (so the count errs on the side of refusing).
   const now = nowMs()
-  const start = Math.floor(now / windowMs) * windowMs
-  const row = await db.insertInto('rate_limit_hits')
-    // Kept two windows: the next window still reads this one.
-    .values({ key, window_start: new Date(start).toISOString(), hits: 1, expires_at: new Date(start + 2 * windowMs).toISOString() })
+  const slotMs = windowMs / SHARED_SLOTS
+  const current = Math.floor(now / slotMs)
+  const slotStart = new Date(current * slotMs).toISOString()
+  await db.insertInto('rate_limit_hits')
+    .values({ key, window_start: slotStart, hits: 1, expires_at: new Date((current + SHARED_SLOTS + 2) * slotMs).toISOString() })
     .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', 1) })))
-    .returning('hits').executeTakeFirstOrThrow()
-  // A sliding window from two fixed ones: the previous window's count, weighted by how much of it
-  // still lies within the last windowMs, plus this window's. A burst across a window boundary is
-  // still counted (plain fixed windows would let up to twice the limit through there).
-  const prev = await db.selectFrom('rate_limit_hits').select('hits').where('key', '=', key)
-    .where('window_start', '=', new Date(start - windowMs).toISOString()).executeTakeFirst()
-  const estimate = Number(row.hits) + Number(prev?.hits ?? 0) * (1 - (now - start) / windowMs)
-  if (estimate > limit) refuse(event, Math.max(1, Math.ceil((start + windowMs - now) / 1000)))
+    .execute()
+  const rows = await db.selectFrom('rate_limit_hits').select(['window_start', 'hits']).where('key', '=', key)
+    .where('window_start', '>=', new Date((current - SHARED_SLOTS) * slotMs).toISOString()).orderBy('window_start').execute()
+  const count = rows.reduce((n, r) => n + Number(r.hits), 0)
+  if (count <= limit) return
+  // Refused requests are not counted (as in LocalLimiter): take this one back.
+  await db.updateTable('rate_limit_hits').set((eb) => ({ hits: eb('hits', '-', 1) }))
+    .where('key', '=', key).where('window_start', '=', slotStart).execute()
+  const oldestSlot = Math.round(Date.parse(rows[0]!.window_start) / slotMs)
+  refuse(event, Math.max(1, Math.ceil(((oldestSlot + SHARED_SLOTS + 1) * slotMs - now) / 1000)))
 }
 
 /** Drops expired windows (housekeeping). */
