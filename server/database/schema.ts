@@ -1,4 +1,14 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
+import type { AlertsTables } from './tables/alerts'
+import type { DecisionTables } from './tables/decisions'
+import type { ForecastTables } from './tables/forecasts'
+import type { LocaleTables } from './tables/locale'
+import type { PeopleTables } from './tables/people'
+import type { PersonalDataTables } from './tables/personalData'
+import type { PlanningDetailsTables } from './tables/planningDetails'
+import type { SeatCounterTables } from './tables/seatCounter'
+import type { TripOpsTables } from './tables/tripOps'
+import type { VoyageTables } from './tables/voyages'
 
 /** Roles, from least to most privileged. Stored in users.role. */
 export const ROLES = ['traveller', 'guide', 'organiser'] as const
@@ -133,8 +143,8 @@ export interface ClimatologyGridsTable {
   broken_pct: Buffer | null
 }
 
-type Auto<T> = ColumnType<T, T | undefined, T>
-type Created = ColumnType<string, string | undefined, never>
+export type Auto<T> = ColumnType<T, T | undefined, T>
+export type Created = ColumnType<string, string | undefined, never>
 
 export interface TripsTable {
   id: Generated<number>
@@ -326,7 +336,11 @@ export interface AppSettingsTable {
   updated_by: number | null
 }
 
-export interface Database {
+/**
+ * Every table. Tables added by one area of work live in their own file under ./tables and are
+ * merged in here.
+ */
+export interface Database extends PeopleTables, TripOpsTables, AlertsTables, PlanningDetailsTables, ForecastTables, DecisionTables, PersonalDataTables, SeatCounterTables, LocaleTables, VoyageTables {
   job_leases: JobLeasesTable
   rate_limit_hits: RateLimitHitsTable
   users: UsersTable

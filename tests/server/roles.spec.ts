@@ -184,6 +184,36 @@ const ROWS: Row[] = [
   { method: 'GET', file: 'workspaces/[id]/export.geojson.get', path: () => `/api/workspaces/${fx.luxorWs}/export.geojson`, want: STAFF(200) },
   { method: 'GET', file: 'workspaces/[id]/export.gpx.get', path: () => `/api/workspaces/${fx.luxorWs}/export.gpx`, want: STAFF(200) },
   { method: 'GET', file: 'workspaces/[id]/export.kml.get', path: () => `/api/workspaces/${fx.luxorWs}/export.kml`, want: STAFF(200) },
+
+  // ── Trips after publishing, guides and the guide's desk ──
+  // (end of block)
+
+  // ── Alerts, messages and search ──
+  // (end of block)
+
+  // ── Planning details ──
+  // (end of block)
+
+  // ── Participants and the manifest ──
+  // (end of block)
+
+  // ── Personal data: export and erasure ──
+  // (end of block)
+
+  // ── Forecast outlook ──
+  // (end of block)
+
+  // ── The day's decision and acknowledgements ──
+  // (end of block)
+
+  // ── Speed and usability ──
+  // (end of block)
+
+  // ── Languages ──
+  // (end of block)
+
+  // ── Voyages ──
+  // (end of block)
 ]
 
 /**

@@ -13,6 +13,16 @@ import * as m0011 from './0011_briefing'
 import * as m0012 from './0012_terrain'
 import * as m0013 from './0013_account_tokens'
 import * as m0014 from './0014_totp'
+import * as m0015 from './0015_participants'
+import * as m0016 from './0016_trip_ops'
+import * as m0017 from './0017_alerts'
+import * as m0018 from './0018_planning_details'
+import * as m0019 from './0019_forecasts'
+import * as m0020 from './0020_decisions'
+import * as m0021 from './0021_personal_data'
+import * as m0022 from './0022_seat_counter'
+import * as m0023 from './0023_locale'
+import * as m0024 from './0024_voyages'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -30,4 +40,14 @@ export const migrations: Record<string, Migration> = {
   '0012_terrain': m0012,
   '0013_account_tokens': m0013,
   '0014_totp': m0014,
+  '0015_participants': m0015,
+  '0016_trip_ops': m0016,
+  '0017_alerts': m0017,
+  '0018_planning_details': m0018,
+  '0019_forecasts': m0019,
+  '0020_decisions': m0020,
+  '0021_personal_data': m0021,
+  '0022_seat_counter': m0022,
+  '0023_locale': m0023,
+  '0024_voyages': m0024,
 }
