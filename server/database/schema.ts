@@ -179,6 +179,8 @@ export interface TripsTable {
   briefing_checklist: ColumnType<string | null, string | null | undefined, string | null>
   created_by: number | null
   created_at: Created
+  /** 1 while the trip takes new holds, 0 once the organiser closed sales (migration 0016). */
+  sales_open: ColumnType<number, number | undefined, number>
 }
 
 export interface BookingsTable {

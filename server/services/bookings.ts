@@ -9,7 +9,7 @@ import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
-import { getTripRow, lockTripRow, seatUse, tiersOf, TripRuleError } from './trips'
+import { getTripRow, lockTripRow, seatUse, tiersOf, TripConflictError, TripRuleError } from './trips'
 
 type Db = Kysely<Database> | Transaction<Database>
 export type { BookingRow }
@@ -78,7 +78,8 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
   // Sold out already, even before lapsed holds are let go? Then say so without queueing for the trip's
   // lock (the rush after sales open is mostly these). A seat freed a moment later is a benign race:
   // the answer is what an instant earlier would have been; no seat is ever handed out here.
-  const pre = await db.selectFrom('trips').select(['seats', 'status']).where('id', '=', tripId).executeTakeFirst()
+  const pre = await db.selectFrom('trips').select(['seats', 'status', 'sales_open']).where('id', '=', tripId).executeTakeFirst()
+  if (pre && pre.status === 'published' && !pre.sales_open) throw new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
   if (pre && pre.status === 'published') {
     const use = await seatUse(db, tripId, iso(), user.id)
     const lapsed = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', iso()).limit(1).executeTakeFirst()

@@ -11,7 +11,7 @@ import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { NotFoundError, siteWithMetrics } from './planning'
 import { cueInputFor, timetable, type Timetable } from './timetable'
-import { getTripRow, isTripGuide } from './trips'
+import { assertStaffReach, getTripRow } from './trips'
 import { nowIso } from './clock'
 
 /**
@@ -20,8 +20,7 @@ import { nowIso } from './clock'
  */
 export async function assertBriefingAccess(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
-  if (user.role === 'organiser') return trip
-  if (user.role === 'guide' && (await isTripGuide(db, tripId, user.id))) return trip
+  if (await assertStaffReach(db, user, trip)) return trip
   const booked = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id)
     .where('status', '=', 'confirmed').executeTakeFirst()
   if (trip.status === 'published' && booked) return trip

@@ -138,3 +138,13 @@ export function invitationMail(d: { name: string; inviter: string; role: string;
       + p(`The link works once, for ${d.days} days. If you were not expecting this, ignore this message.`),
     `Hello ${d.name},\n\n${d.inviter} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:\n${d.url}\n\nThe link works once, for ${d.days} days. If you were not expecting this, ignore this message.`)
 }
+
+/** A trip's dates, meeting point or sites changed: each change with its old and new value. */
+export function tripChanged(d: { name: string; tripTitle: string; changes: Array<{ label: string; from: string; to: string }>; tripUrl: string }): Mail {
+  const rows = d.changes.map((c) => `<tr><td style="padding:4px 8px 4px 0;font-weight:700">${esc(c.label)}</td><td style="padding:4px 8px;color:#62579b"><s>${esc(c.from)}</s></td><td style="padding:4px 0">${esc(c.to)}</td></tr>`).join('')
+  return frame(`Your trip has changed: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`The organiser has changed <strong>${esc(d.tripTitle)}</strong>:`)
+      + `<table role="presentation" style="border-collapse:collapse;font-size:14px"><tr><th align="left">What</th><th align="left">Was</th><th align="left">Now</th></tr>${rows}</table>`
+      + p('Your booking, its price and its terms stay as agreed.') + button(d.tripUrl, 'See the trip'),
+    `Hello ${d.name},\n\nThe organiser has changed ${d.tripTitle}:\n\n${d.changes.map((c) => `${c.label}\n  was: ${c.from}\n  now: ${c.to}`).join('\n\n')}\n\nYour booking, its price and its terms stay as agreed.\n${d.tripUrl}`)
+}

@@ -16,7 +16,7 @@ import { cloudLookupFor } from './climatology'
 import { elementsInForce } from './eclipses'
 import { getWorkspace, NotFoundError, zoneAt } from './planning'
 import { siteHorizon, terrainFor, terrainWarnings } from './terrain'
-import { getTripRow, isTripGuide, type TripRow } from './trips'
+import { assertStaffReach, getTripRow, type TripRow } from './trips'
 import { nowIso, nowMs } from './clock'
 
 export const compass = compassShort
@@ -39,8 +39,7 @@ export class CueRuleError extends Error {
 /** May this user see the trip's timetable? Organisers, and guides assigned to the trip. */
 export async function assertTimetableAccess(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
-  if (user.role === 'organiser') return trip
-  if (user.role === 'guide' && (await isTripGuide(db, tripId, user.id))) return trip
+  if (await assertStaffReach(db, user, trip)) return trip
   throw new NotFoundError('No such trip')
 }
 

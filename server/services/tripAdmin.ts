@@ -2,8 +2,7 @@ import type { Kysely } from 'kysely'
 import type { Database, User } from '../database/schema'
 import { toSafeCsv } from './csv'
 import { dueOf } from './dues'
-import { NotFoundError } from './planning'
-import { getTripRow, isTripGuide, seatUse } from './trips'
+import { assertStaffReach, getTripRow, seatUse } from './trips'
 
 /** Organiser's table: every booking with payer, status, paid and due, plus the waitlist. */
 export async function tripBookings(db: Kysely<Database>, tripId: number) {
@@ -38,7 +37,7 @@ export async function tripBookingsCsv(db: Kysely<Database>, tripId: number): Pro
 /** Names and seats of confirmed participants, for organisers and the trip's own guides. */
 export async function participants(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
-  if (user.role === 'guide' && !(await isTripGuide(db, tripId, user.id))) throw new NotFoundError('No such trip')
+  await assertStaffReach(db, user, trip)
   const rows = await db.selectFrom('bookings').innerJoin('users', 'users.id', 'bookings.user_id').select(['users.name', 'bookings.seats'])
     .where('bookings.trip_id', '=', tripId).where('bookings.status', '=', 'confirmed').orderBy('users.name').execute()
   return { trip: { id: trip.id, title: trip.title }, data: rows.map((r) => ({ name: r.name, seats: r.seats })), meta: { total: rows.reduce((s, r) => s + r.seats, 0) } }

@@ -14,6 +14,22 @@ export type TripRow = Selectable<TripsTable>
 export class TripRuleError extends Error {
   constructor(public field: string, message: string) { super(message) }
 }
+/** A guide asking for a trip they are not assigned to: told so plainly (403), not that the trip is missing. */
+export class NotAssignedError extends Error {
+  constructor() { super('You are not assigned to this trip. Ask the organiser to add you to its guides.') }
+}
+/** A conflict the caller can act on, with a code for the page: sales_closed, has_bookings, confirm_needed. */
+export class TripConflictError extends Error {
+  constructor(public code: string, message: string, public data: Record<string, unknown> = {}) { super(message) }
+}
+
+/** Organisers reach every trip; a guide only those assigned to them (otherwise NotAssignedError). */
+export async function assertStaffReach(db: Kysely<Database>, user: User, trip: TripRow): Promise<boolean> {
+  if (user.role === 'organiser') return true
+  if (user.role !== 'guide') return false
+  if (await isTripGuide(db, trip.id, user.id)) return true
+  throw new NotAssignedError()
+}
 
 export async function createTrip(db: Kysely<Database>, user: User, t: TripCreateInput): Promise<{ id: number }> {
   const ws = await db.selectFrom('workspaces').selectAll().where('id', '=', t.workspaceId).executeTakeFirst()
@@ -64,7 +80,8 @@ export async function getTripRow(db: Kysely<Database>, id: number): Promise<Trip
 /** A trip the caller may see: published ones for everyone, drafts for organisers only. */
 export async function visibleTrip(db: Kysely<Database>, user: User | null, id: number): Promise<TripRow> {
   const t = await getTripRow(db, id)
-  if (t.status !== 'published' && user?.role !== 'organiser') throw new NotFoundError('No such trip')
+  // Drafts: organisers, and the guides already assigned to them.
+  if (t.status !== 'published' && user?.role !== 'organiser' && !(user?.role === 'guide' && (await isTripGuide(db, id, user.id)))) throw new NotFoundError('No such trip')
   return t
 }
 
@@ -101,7 +118,7 @@ export async function tripSummary(db: Kysely<Database>, t: TripRow) {
     id: t.id, title: t.title, description: t.description, status: t.status, eclipseId: t.eclipse_id, workspaceId: t.workspace_id,
     startDate: t.start_date, endDate: t.end_date, seats: t.seats, seatsLeft: Math.max(0, t.seats - use.taken - use.offered),
     priceMinor: t.price_minor, depositMinor: t.deposit_minor, currency: t.currency, balanceDueDate: t.balance_due_date,
-    cancellationTiers: tiersOf(t), minGroupSize: t.min_group_size,
+    cancellationTiers: tiersOf(t), minGroupSize: t.min_group_size, salesOpen: t.sales_open === 1,
     meetingPoint: { name: t.meeting_name, lat: t.meeting_lat, lon: t.meeting_lon, timeUtc: t.meeting_time_utc, ...localTime(Date.parse(t.meeting_time_utc), zoneAt(t.meeting_lat, t.meeting_lon)) },
     site: { id: site.id, name: site.name, lat: site.lat, lon: site.lon, elevationM: site.elevation_m },
   }

@@ -2,7 +2,7 @@ import { EmailUnconfirmedError, HoldExistsError, SoldOutError, WaitlistExistsErr
 import { BookingStateError, CheckoutPendingError, RefundLimitError } from '../services/money'
 import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError, SiteInUseError } from '../services/planning'
-import { TripRuleError } from '../services/trips'
+import { NotAssignedError, TripConflictError, TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
 
@@ -10,6 +10,8 @@ import { TotpError } from '../services/totp'
 export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof UnknownEclipseError) return createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
   if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
+  if (e instanceof NotAssignedError) return createError({ statusCode: 403, statusMessage: 'Not assigned', message: e.message, data: { code: 'not_assigned' } })
+  if (e instanceof TripConflictError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { ...e.data, code: e.code } })
   if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
   if (e instanceof SiteInUseError) return createError({ statusCode: 409, statusMessage: 'Site in use', message: e.message, data: { code: 'site_in_use', trip: e.tripTitle } })
   if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })

@@ -9,6 +9,8 @@ export const CancellationTier = z.object({
   refundPct: z.number({ error: 'refundPct must be 0–100' }).min(0, 'refundPct must be 0–100').max(100, 'refundPct must be 0–100'),
 })
 export type CancellationTierInput = z.infer<typeof CancellationTier>
+/** As many tiers as an organiser's terms need, within reason (one a fortnight over most of a year). */
+export const MAX_CANCELLATION_TIERS = 24
 
 export const TripCreate = z.object({
   workspaceId: z.number({ error: 'workspaceId is required' }).int().positive(),
@@ -23,7 +25,7 @@ export const TripCreate = z.object({
   depositMinor: minor('depositMinor'),
   currency: z.string({ error: 'currency is required' }).trim().toLowerCase().regex(/^[a-z]{3}$/, 'currency must be a 3-letter ISO 4217 code'),
   balanceDueDate: date('balanceDueDate'),
-  cancellationTiers: z.array(CancellationTier).max(6).default([]),
+  cancellationTiers: z.array(CancellationTier).max(MAX_CANCELLATION_TIERS, `at most ${MAX_CANCELLATION_TIERS} cancellation tiers`).default([]),
   minGroupSize: z.number().int().min(1).max(1000).default(1),
   meetingPoint: z.object({
     name: z.string({ error: 'meeting point name is required' }).trim().min(1, 'meeting point name is required').max(200).regex(PLAIN_TEXT, plainTextMessage('meeting point name')),

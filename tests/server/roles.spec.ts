@@ -153,15 +153,15 @@ const ROWS: Row[] = [
   { method: 'GET', file: 'trips/[id]/bookings.csv.get', path: () => `/api/trips/${fx.luxorTrip}/bookings.csv`, want: ORGANISER_ONLY(200) },
   { method: 'POST', file: 'trips/[id]/bookings/index.post', path: () => `/api/trips/${fx.openTrip}/bookings`, body: json({ seats: 1 }), want: USER(201), note: 'any confirmed account may hold seats' },
   { method: 'POST', file: 'trips/[id]/waitlist.post', path: () => `/api/trips/${fx.fullTrip}/waitlist`, body: json({ seats: 1 }), want: USER(201) },
-  { method: 'GET', file: 'trips/[id]/briefing.get', path: () => `/api/trips/${fx.luxorTrip}/briefing`, want: [401, 404, 200, 200, 404, 200], note: 'booked travellers, the trip\'s guides, organisers' },
+  { method: 'GET', file: 'trips/[id]/briefing.get', path: () => `/api/trips/${fx.luxorTrip}/briefing`, want: [401, 404, 200, 200, 403, 200], note: 'booked travellers, the trip\'s guides, organisers; an unassigned guide gets 403 not_assigned' },
   { method: 'PUT', file: 'trips/[id]/checklist.put', path: () => `/api/trips/${fx.luxorTrip}/checklist`, body: json({ items: ['ISO 12312-2 eclipse viewers', 'Water'] }), want: ORGANISER_ONLY(200) },
-  { method: 'PUT', file: 'trips/[id]/cues.put', path: () => `/api/trips/${fx.luxorTrip}/cues`, body: json({ offsets: {} }), want: STAFF(200) },
+  { method: 'PUT', file: 'trips/[id]/cues.put', path: () => `/api/trips/${fx.luxorTrip}/cues`, body: json({ offsets: {} }), want: [401, 403, 403, 200, 403, 200], note: 'an unassigned guide is told so: 403 not_assigned' },
   { method: 'GET', file: 'trips/[id]/itinerary.get', path: () => `/api/trips/${fx.luxorTrip}/itinerary`, want: ORGANISER_ONLY(200) },
   { method: 'POST', file: 'trips/[id]/itinerary.post', path: () => `/api/trips/${fx.luxorTrip}/itinerary`, body: json({ confirm: true }), want: ORGANISER_ONLY(200) },
-  { method: 'GET', file: 'trips/[id]/participants.get', path: () => `/api/trips/${fx.luxorTrip}/participants`, want: STAFF(200) },
-  { method: 'GET', file: 'trips/[id]/timetable.get', path: () => `/api/trips/${fx.luxorTrip}/timetable`, want: STAFF(200) },
-  { method: 'GET', file: 'trips/[id]/timetable.pdf.get', path: () => `/api/trips/${fx.luxorTrip}/timetable.pdf`, want: STAFF(200) },
-  { method: 'GET', file: 'trips/[id]/sites/[siteId]/timetable.ics.get', path: () => `/api/trips/${fx.luxorTrip}/sites/${fx.luxorSite}/timetable.ics`, want: STAFF(200) },
+  { method: 'GET', file: 'trips/[id]/participants.get', path: () => `/api/trips/${fx.luxorTrip}/participants`, want: [401, 403, 403, 200, 403, 200], note: 'an unassigned guide is told so: 403 not_assigned' },
+  { method: 'GET', file: 'trips/[id]/timetable.get', path: () => `/api/trips/${fx.luxorTrip}/timetable`, want: [401, 403, 403, 200, 403, 200], note: 'an unassigned guide is told so: 403 not_assigned' },
+  { method: 'GET', file: 'trips/[id]/timetable.pdf.get', path: () => `/api/trips/${fx.luxorTrip}/timetable.pdf`, want: [401, 403, 403, 200, 403, 200], note: 'an unassigned guide is told so: 403 not_assigned' },
+  { method: 'GET', file: 'trips/[id]/sites/[siteId]/timetable.ics.get', path: () => `/api/trips/${fx.luxorTrip}/sites/${fx.luxorSite}/timetable.ics`, want: [401, 403, 403, 200, 403, 200], note: 'an unassigned guide is told so: 403 not_assigned' },
 
   { method: 'GET', file: 'users/index.get', path: () => '/api/users', want: ORGANISER_ONLY(200) },
   { method: 'POST', file: 'users/index.post', path: () => '/api/users', body: () => ({ name: 'Roles Invitee', email: `roles-${unique()}@umbrafield.test`, role: 'guide' }), want: ORGANISER_ONLY(201) },
@@ -186,6 +186,14 @@ const ROWS: Row[] = [
   { method: 'GET', file: 'workspaces/[id]/export.kml.get', path: () => `/api/workspaces/${fx.luxorWs}/export.kml`, want: STAFF(200) },
 
   // ── Trips after publishing, guides and the guide's desk ──
+  { method: 'PATCH', file: 'trips/[id]/index.patch', path: () => `/api/trips/${fx.luxorTrip}`, body: json({}), want: ORGANISER_ONLY(200), note: 'an empty edit changes nothing' },
+  {
+    method: 'POST', file: 'trips/[id]/unpublish.post', body: json({}), want: ORGANISER_ONLY(200), note: 'the organiser unpublishes a fresh trip nobody booked',
+    path: async (c) => `/api/trips/${c === 'org' ? await publishedTrip(fx.cookies.get('org')!, { title: `Roles matrix: unpublish ${unique()}` }) : fx.luxorTrip}/unpublish`,
+  },
+  { method: 'GET', file: 'trips/[id]/guides.get', path: () => `/api/trips/${fx.luxorTrip}/guides`, want: ORGANISER_ONLY(200) },
+  { method: 'PUT', file: 'trips/[id]/guides.put', path: () => `/api/trips/${fx.openTrip}/guides`, body: json({ userIds: [] }), want: ORGANISER_ONLY(200), note: 'the open trip has no guides: none stays none' },
+  { method: 'GET', file: 'me/trips.get', path: () => '/api/me/trips', want: GUIDES(200), note: 'a guide on no trip gets an empty list' },
   // (end of block)
 
   // ── Alerts, messages and search ──

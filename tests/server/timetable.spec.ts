@@ -25,7 +25,10 @@ describe('contact timetable', () => {
     expect((await api('/api/trips/1/timetable', { cookie: org })).status).toBe(200)
     await inviteAndChoosePassword(org, { name: 'Other Guide', email: 'other-guide@umbrafield.test', role: 'guide' }, 'other-guide-pw')
     const other = await signIn('other-guide@umbrafield.test', 'other-guide-pw')
-    expect((await api('/api/trips/1/timetable', { cookie: other })).status).toBe(404)
+    // A guide not on the trip is told so plainly, not that the trip is missing.
+    const refused = await api('/api/trips/1/timetable', { cookie: other })
+    expect(refused.status).toBe(403)
+    expect(refused.body.data.code).toBe('not_assigned')
   })
 
   it('local times are UT plus the zone rules of the date: Madrid in summer time (+2 h) and Cairo (+3 h, east of Greenwich)', async () => {

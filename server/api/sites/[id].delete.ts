@@ -1,9 +1,12 @@
 import { IdParams } from '#shared/schemas/auth'
-import { deleteSite } from '../../services/planning'
+import { ConfirmQuery } from '#shared/schemas/tripOps'
+import { removeSite } from '../../services/tripOps'
 
+/** A trip's primary site cannot be deleted (409 site_in_use); a fallback of a booked trip asks first (409 confirm_needed) until `?confirm=true`. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'organiser')
+  const user = await requireRole(event, 'organiser')
   const { id } = paramsAs(event, IdParams)
-  await withServiceErrors(() => deleteSite(useDb(), id))
+  const { confirm } = queryAs(event, ConfirmQuery)
+  await withServiceErrors(() => removeSite(useDb(), user, id, confirm, useRuntimeConfig().public.appUrl))
   return { ok: true }
 })

@@ -1,6 +1,13 @@
 import type { Kysely } from 'kysely'
 
-// Reserved: filled in by the work it is named after.
-export async function up(_db: Kysely<unknown>): Promise<void> {}
+/**
+ * Running a trip after publishing: organisers close and reopen sales. A closed trip stays visible
+ * (and its bookings stand) but takes no new holds. Existing trips start open, as they were.
+ */
+export async function up(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('trips').addColumn('sales_open', 'integer', (c) => c.notNull().defaultTo(1)).execute()
+}
 
-export async function down(_db: Kysely<unknown>): Promise<void> {}
+export async function down(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('trips').dropColumn('sales_open').execute()
+}
