@@ -12,6 +12,9 @@ export interface TripView {
   meetingPoint: { name: string; lat: number; lon: number; timeUtc: string; local: string; utcOffset: string; zone: string }
   site: { id: number; name: string; lat: number; lon: number; elevationM: number }
   eclipse?: TripEclipse
+  /** Sales open for new holds (organisers close them); the viewer: an assigned guide sees their tools. */
+  salesOpen?: boolean
+  viewer?: { assignedGuide: boolean }
 }
 /** A booking as GET /api/bookings/{id} returns it (types from the service itself). */
 export type BookingView = Awaited<ReturnType<typeof bookingView>>
