@@ -35,6 +35,24 @@ describe('voyages', () => {
     expect(v.alternatives.length).toBeLessThanOrEqual(3)
     expect(v.homeward.distanceNm).toBeGreaterThan(0)
     expect(v.underway.speedKn).toBe(12)
+    // The timetable treats the voyage like a site: ship's time and UTC name the same second, and any
+    // filters-off cue lies strictly inside C2..C3 (stopped, and under way with the course held).
+    const tt = v.timetable
+    expect(tt.kind).toBe('total')
+    expect(tt.safety.join(' ')).toMatch(/ISO 12312-2/)
+    for (const k of ['c1', 'c2', 'max', 'c3', 'c4']) {
+      const c = tt.contacts[k]
+      expect(Date.parse(`${c.local.replace(" ", "T")}${c.utcOffset}`), k).toBe(Math.round(Date.parse(c.utc) / 1000) * 1000)
+    }
+    const inside = (cues: Array<{ filters: string; utc: string }>, c2: string, c3: string) => {
+      for (const q of cues.filter((x) => x.filters === 'off')) {
+        expect(Date.parse(q.utc)).toBeGreaterThan(Date.parse(c2))
+        expect(Date.parse(q.utc)).toBeLessThan(Date.parse(c3))
+      }
+    }
+    inside(tt.cues, tt.contacts.c2.utc, tt.contacts.c3.utc)
+    expect(tt.underway.contacts.c2.utc).not.toBe(tt.contacts.c2.utc)
+    inside(tt.underway.cues, tt.underway.contacts.c2.utc, tt.underway.contacts.c3.utc)
     const g = await api(`/api/voyages/${v.id}`, { cookie: org })
     expect(g.status).toBe(200)
     expect(g.body).toEqual(v)

@@ -7,6 +7,7 @@ import { cloudAt, eclipseMonth, monthGrids } from '../climatology'
 import { elementsInForce } from '../eclipses'
 import { assertWorkspaceAccess, getWorkspace, NotFoundError } from '../planning'
 import { planVoyage, type VoyagePlan } from './voyagePlan'
+import { voyageTimetable } from './voyageTimetable'
 
 /** Plans a voyage in a workspace (its eclipse, element set, ΔT and climatology) and stores it. */
 export async function createVoyage(db: Kysely<Database>, user: User, workspaceId: number, input: VoyageCreate) {
@@ -18,20 +19,23 @@ export async function createVoyage(db: Kysely<Database>, user: User, workspaceId
     el, deltaTSec: dt.deltaTSec, ttMinusClockSec: dt.ttMinusClockSec,
     pClear: grids ? (lat, lon) => cloudAt(grids, lat, lon).pClear : null,
   })
-  return db.transaction().execute(async (trx) => {
+  const row = await db.transaction().execute(async (trx) => {
     const row = await trx.insertInto('voyages').values({
       workspace_id: workspaceId, name: input.name, request: JSON.stringify(input), plan: JSON.stringify(plan), created_by: user.id,
     }).returning(['id', 'created_at']).executeTakeFirstOrThrow()
     await audit(trx, { action: 'voyage_create', actorUserId: user.id, detail: { voyageId: row.id, workspaceId } })
-    return voyageOut({ id: row.id, workspace_id: workspaceId, name: input.name, request: input, plan, created_at: row.created_at, eclipse_id: ws.eclipse_id })
+    return row
   })
+  return voyageOut(db, { id: row.id, workspace_id: workspaceId, name: input.name, request: input, plan, created_at: row.created_at, eclipse_id: ws.eclipse_id })
 }
 
-function voyageOut(v: { id: number; workspace_id: number; name: string; request: VoyageCreate; plan: VoyagePlan; created_at: string; eclipse_id: string }) {
+async function voyageOut(db: Kysely<Database>, v: { id: number; workspace_id: number; name: string; request: VoyageCreate; plan: VoyagePlan; created_at: string; eclipse_id: string }) {
+  const { el, deltaTOverride } = await elementsInForce(db, v.eclipse_id)
   return {
     id: v.id, workspaceId: v.workspace_id, eclipseId: v.eclipse_id, name: v.name, createdAt: v.created_at,
     departure: v.request.departure, speedKn: v.request.speedKn, returnTo: v.request.returnTo ?? null, holdCourse: v.request.holdCourse ?? null,
     ...v.plan,
+    timetable: voyageTimetable(v.eclipse_id, el, deltaTOverride, v.plan),
   }
 }
 
@@ -46,7 +50,7 @@ async function voyageRow(db: Kysely<Database>, user: User, id: number) {
 
 export async function getVoyage(db: Kysely<Database>, user: User, id: number) {
   const v = await voyageRow(db, user, id)
-  return voyageOut({ ...v, request: JSON.parse(v.request) as VoyageCreate, plan: JSON.parse(v.plan) as VoyagePlan })
+  return voyageOut(db, { ...v, request: JSON.parse(v.request) as VoyageCreate, plan: JSON.parse(v.plan) as VoyagePlan })
 }
 
 export async function listVoyages(db: Kysely<Database>, user: User, workspaceId: number) {
