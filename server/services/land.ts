@@ -38,3 +38,9 @@ export function isLand(lat: number, lon: number): boolean {
   }
   return false
 }
+
+/** The land polygons whose bounding box meets [west, south, east, north] (rings as [lon, lat]; holes are lakes). */
+export function landPolygonsIn(w: number, s: number, e: number, n: number): GeoJSON.Polygon[] {
+  polygons ??= load()
+  return polygons.filter((p) => !(p.bbox[2] < w || p.bbox[0] > e || p.bbox[3] < s || p.bbox[1] > n)).map((p) => p.geometry)
+}

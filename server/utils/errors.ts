@@ -5,6 +5,7 @@ import { NotFoundError, SiteInUseError } from '../services/planning'
 import { NotAssignedError, TripConflictError, TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
+import { VoyageUnreachable } from '../services/sea/voyagePlan'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -27,6 +28,7 @@ export function httpErrorFor(e: unknown): Error | null {
   }
   if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
+  if (e instanceof VoyageUnreachable) return createError({ statusCode: 422, statusMessage: 'Unreachable', message: e.message, data: { code: 'unreachable', reason: e.reason } })
   return null
 }
 

@@ -71,6 +71,16 @@ async function activeHold(): Promise<number> {
   throw new Error(`could not hold a seat for the booked traveller: ${r.status} ${JSON.stringify(r.body)}`)
 }
 
+/** A voyage in the demo workspace (a ship out of Málaga the evening before 2 August 2027). */
+const voyageBody = () => ({ name: `Roles voyage ${unique()}`, departure: { lat: 36.7, lon: -4.4, utc: '2027-08-01T20:00:00Z' }, speedKn: 16 })
+async function newVoyage(): Promise<number> {
+  const r = await api(`/api/workspaces/${fx.luxorWs}/voyages`, { method: 'POST', body: voyageBody(), cookie: fx.cookies.get('org') })
+  if (r.status !== 201) throw new Error(`could not plan a voyage: ${r.status} ${JSON.stringify(r.body)}`)
+  return r.body.id
+}
+let sharedVoyage = 0
+const aVoyage = async () => (sharedVoyage ||= await newVoyage())
+
 let seq = 0
 const unique = () => `${Date.now().toString(36)}-${++seq}`
 
@@ -221,6 +231,10 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Voyages ──
+  { method: 'POST', file: 'workspaces/[id]/voyages/index.post', path: () => `/api/workspaces/${fx.luxorWs}/voyages`, body: () => voyageBody(), want: ORGANISER_ONLY(201) },
+  { method: 'GET', file: 'workspaces/[id]/voyages/index.get', path: () => `/api/workspaces/${fx.luxorWs}/voyages`, want: STAFF(200) },
+  { method: 'GET', file: 'voyages/[id]/index.get', path: async () => `/api/voyages/${await aVoyage()}`, want: STAFF(200) },
+  { method: 'DELETE', file: 'voyages/[id]/index.delete', path: async (c) => `/api/voyages/${c === 'org' ? await newVoyage() : await aVoyage()}`, want: ORGANISER_ONLY(200), note: 'the organiser deletes a voyage of its own' },
   // (end of block)
 ]
 
