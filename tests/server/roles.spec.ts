@@ -4,7 +4,7 @@ import { url } from '@nuxt/test-utils/e2e'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
 import { DEMO_TRIP_TITLE, DEMO_WORKSPACE } from '../../server/database/seed/demo'
-import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, TRAVELLER2, useApp } from './app'
+import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, TRAVELLER2, until, useApp } from './app'
 
 const { dbTarget } = await useApp()
 const db = openDatabase(dbTarget)
@@ -303,9 +303,13 @@ beforeAll(async () => {
 
   // A message that failed to send, for the retry row (the fake mail server delivers everything).
   // One without a one-time link: those cannot be retried once failed (their sealed link is cleared).
-  const msg = await db.selectFrom('outbox').select('id').where('text', 'not like', '%{{secret_token}}%').orderBy('id').executeTakeFirstOrThrow()
-  await db.updateTable('outbox').set({ status: 'failed', last_error: 'roles matrix: marked failed' }).where('id', '=', msg.id).execute()
-  fx.outboxId = msg.id
+  // Only a message the worker has finished with: one still being sent would be marked sent after us.
+  const msg = await until(
+    () => db.selectFrom('outbox').select('id').where('text', 'not like', '%{{secret_token}}%').where('status', '=', 'sent').orderBy('id').executeTakeFirst(),
+    (m) => !!m, 30_000)
+  const marked = await db.updateTable('outbox').set({ status: 'failed', last_error: 'roles matrix: marked failed' }).where('id', '=', msg!.id).where('status', '=', 'sent').executeTakeFirst()
+  expect(Number(marked.numUpdatedRows)).toBe(1)
+  fx.outboxId = msg!.id
 }, 120_000)
 
 async function call(row: Row, caller: Caller, cookie: string) {
