@@ -4,7 +4,9 @@ import { chromium } from '@playwright/test'
 const base = process.env.BASE || 'http://localhost:3111'
 const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update'] })
 const pages = (process.env.PAGES || '/,/login,/eclipses,/eclipses/2027-08-02').split(',')
-const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+// VIEWPORT=390x844 for a phone.
+const [vw, vh] = (process.env.VIEWPORT || '1280x900').split('x').map(Number)
+const ctx = await browser.newContext({ viewport: { width: vw, height: vh } })
 const page = await ctx.newPage()
 const outside = []
 page.on('request', (r) => { const u = new URL(r.url()); if (!['localhost', '127.0.0.1'].includes(u.hostname) && u.protocol !== 'data:' && u.protocol !== 'blob:') outside.push(r.url()) })
