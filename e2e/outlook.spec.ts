@@ -21,7 +21,8 @@ test.beforeAll(async () => {
   app = spawn(process.execPath, ['.output/server/index.mjs'], {
     stdio: 'ignore',
     env: {
-      ...process.env, ...Object.assign({}, ...fakeServices({ appPort: port }).map((f) => f.appEnv)),
+      // Only the forecast fake: no mail or payments from this instance reach the suite's catcher and Stripe fake.
+      ...process.env, ...fakeServices({ appPort: port }).find((f) => f.name === 'forecast-fake')!.appEnv,
       PORT: String(port), NUXT_DB_PATH: join(dir, 'outlook.sqlite'), NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1',
       NUXT_SESSION_PASSWORD: 'e2e-outlook-session-password-long-enough-0123456789', NUXT_PUBLIC_APP_URL: base,
       UMBRAFIELD_FIXED_DATE: '2027-07-29',

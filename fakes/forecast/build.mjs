@@ -79,26 +79,30 @@ const clampPct = (v) => Math.max(0, Math.min(100, v))
 
 /**
  * The demo pattern, in percent: per cell a base amount of each layer, a daily cycle of low cloud
- * peaking in the local afternoon (convection), and slow weather systems passing over a few days.
- * Invented, deterministic and smooth in time; not a model of any real climate.
+ * peaking in the local afternoon (convection), and slow weather systems passing over a few days;
+ * plus a small change from one issue hour to the next (`issueMs`), so that runs fetched an hour
+ * apart differ a little, as real forecasts do. Invented and deterministic; not a model of any real climate.
  */
-function demoLayer(lat, lon, hourMs, layer) {
+function demoLayer(lat, lon, hourMs, layer, issueMs) {
   const solarHour = ((hourMs / HOUR_MS + lon / 15) % 24 + 24) % 24
   const days = hourMs / DAY_MS
+  const salt = { low: 7, mid: 8, high: 9 }[layer]
+  const revision = 8 * Math.sin(issueMs / (7 * HOUR_MS) + 6 * cellNoise(lat, lon, salt))
   if (layer === 'low') {
     const base = 5 + 30 * cellNoise(lat, lon, 1)
     const convective = 20 * Math.max(0, Math.sin(((solarHour - 9) / 12) * Math.PI))
-    return clampPct(base + convective + 15 * Math.sin(days / 2.3 + 6 * cellNoise(lat, lon, 2)))
+    return clampPct(base + convective + 15 * Math.sin(days / 2.3 + 6 * cellNoise(lat, lon, 2)) + revision)
   }
-  if (layer === 'mid') return clampPct(10 + 30 * cellNoise(lat, lon, 3) + 20 * Math.sin(days / 3.1 + 6 * cellNoise(lat, lon, 4)))
-  return clampPct(5 + 40 * cellNoise(lat, lon, 5) + 25 * Math.sin(days / 1.7 + 6 * cellNoise(lat, lon, 6)))
+  if (layer === 'mid') return clampPct(10 + 30 * cellNoise(lat, lon, 3) + 20 * Math.sin(days / 3.1 + 6 * cellNoise(lat, lon, 4)) + revision)
+  return clampPct(5 + 40 * cellNoise(lat, lon, 5) + 25 * Math.sin(days / 1.7 + 6 * cellNoise(lat, lon, 6)) + revision)
 }
 
 /**
- * Cloud in percent for a location, hour (ms, UTC) and layer ('total', 'low', 'mid', 'high').
- * With settings, a point within 30 km sets every layer and hour (the nearest wins); elsewhere the default.
+ * Cloud in percent for a location, hour (ms, UTC) and layer ('total', 'low', 'mid', 'high'), as
+ * forecast at the issue hour `issueMs` (demo pattern only). With settings, a point within 30 km sets
+ * every layer and hour (the nearest wins); elsewhere the default.
  */
-export function cloudFor(settings, lat, lon, hourMs, layer) {
+export function cloudFor(settings, lat, lon, hourMs, layer, issueMs = 0) {
   if (settings) {
     let best = null
     for (const p of settings.points) {
@@ -107,9 +111,9 @@ export function cloudFor(settings, lat, lon, hourMs, layer) {
     }
     return best ? best.pct : settings.default
   }
-  if (layer !== 'total') return demoLayer(lat, lon, hourMs, layer)
+  if (layer !== 'total') return demoLayer(lat, lon, hourMs, layer, issueMs)
   // Total cover from the layers with random overlap: 1 − Π(1 − layer).
-  const clear = ['low', 'mid', 'high'].reduce((p, l) => p * (1 - demoLayer(lat, lon, hourMs, l) / 100), 1)
+  const clear = ['low', 'mid', 'high'].reduce((p, l) => p * (1 - demoLayer(lat, lon, hourMs, l, issueMs) / 100), 1)
   return clampPct(100 * (1 - clear))
 }
 

@@ -10,7 +10,7 @@
 //     the cloud within 30 km of it (the nearest point wins where they overlap), for every hour and every
 //     layer; everything else gets the default. POST /_fake/forecast/reset goes back to the demo pattern.
 //   GET /_fake/forecast/state, GET /_fake/health.
-// Without a set, every location gets a deterministic demo pattern (below): plausible, not real weather.
+// Without a set, every location gets a deterministic demo pattern (build.mjs), revised each hour: plausible, not real weather.
 import { createServer } from 'node:http'
 import { buildForecastResponse, cloudFor, parseForecastQuery } from './build.mjs'
 
@@ -59,7 +59,9 @@ const server = createServer(async (req, res) => {
       // The real service answers a bad request with 400 and a JSON reason (the SDK throws it).
       if ('reason' in q) return sendJson(res, 400, { error: true, reason: q.reason })
       requests++
-      const body = buildForecastResponse(q, (lat, lon, hourMs, layer) => cloudFor(settings, lat, lon, hourMs, layer))
+      // The demo pattern is revised once an hour (of this machine's clock), like a real forecast.
+      const issueMs = Math.floor(Date.now() / 3_600_000) * 3_600_000
+      const body = buildForecastResponse(q, (lat, lon, hourMs, layer) => cloudFor(settings, lat, lon, hourMs, layer, issueMs))
       res.writeHead(200, { 'content-type': 'application/octet-stream' })
       return res.end(body)
     }

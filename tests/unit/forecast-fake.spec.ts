@@ -46,8 +46,10 @@ describe('the forecast fake, read through the official SDK', () => {
     const h = Date.parse('2027-08-02T09:00:00Z')
     expect(a!.low[33]).toBe(Math.round(cloudFor(null, LUXOR.lat, LUXOR.lon, h, 'low')))
     expect(b!.total[33]).toBe(Math.round(cloudFor(null, QENA.lat, QENA.lon, h, 'total')))
-    // The demo pattern moves through the day (it is not one flat number).
+    // The demo pattern moves through the day (it is not one flat number), and is revised from one issue hour to the next.
     expect(new Set(a!.low).size).toBeGreaterThan(5)
+    const issues = Array.from({ length: 12 }, (_, i) => cloudFor(null, LUXOR.lat, LUXOR.lon, h, 'total', i * 3_600_000))
+    expect(new Set(issues.map(Math.round)).size).toBeGreaterThan(3)
   })
 
   it('set points change every layer and hour within 30 km; elsewhere the default', async () => {
