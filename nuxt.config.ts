@@ -38,6 +38,8 @@ export default defineNuxtConfig({
     // Sealed session cookie: a week from the last renewal (renewed at most hourly while in use).
     session: { maxAge: 7 * 24 * 3600 },
     holdMinutes: 15,
+    // NUXT_FORECAST_API_URL: Open-Meteo's forecast endpoint (the demo and tests point it at fakes/forecast)
+    forecastApiUrl: 'https://api.open-meteo.com/v1/forecast',
     offerHours: 24,
     // NUXT_PUBLIC_APP_URL
     public: { appUrl: 'http://localhost:3000' },

@@ -9,6 +9,7 @@ export function fakeServices(o = {}) {
   const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || 'whsec_umbrafield_local_fake'
   const smtpPort = process.env.MAIL_FAKE_SMTP_PORT || '1025'
   const webPort = process.env.MAIL_FAKE_WEB_PORT || '1080'
+  const forecastPort = process.env.FORECAST_FAKE_PORT || '12121'
   return [
     {
       name: 'mail-catcher',
@@ -39,6 +40,16 @@ export function fakeServices(o = {}) {
         NUXT_STRIPE_API_PORT: stripePort,
         NUXT_STRIPE_API_PROTOCOL: 'http',
       },
+    },
+    {
+      name: 'forecast-fake',
+      label: 'Forecast fake',
+      url: `http://127.0.0.1:${forecastPort}/_fake/forecast/state`,
+      // Hourly cloud cover in Open-Meteo's FlatBuffers format, for the official SDK (fakes/forecast).
+      args: ['fakes/forecast/server.mjs'],
+      env: { FORECAST_FAKE_PORT: forecastPort },
+      health: `http://127.0.0.1:${forecastPort}/_fake/health`,
+      appEnv: { NUXT_FORECAST_API_URL: `http://127.0.0.1:${forecastPort}/v1/forecast` },
     },
   ]
 }

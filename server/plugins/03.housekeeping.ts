@@ -1,4 +1,5 @@
 import { housekeeping } from '../services/bookings'
+import { fetchDueForecasts } from '../services/forecasts'
 import { singleFlight, withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
 import { pruneRateLimits } from '../utils/rateLimit'
@@ -35,7 +36,22 @@ export default defineNitroPlugin((nitro) => {
       console.error('[umbrafield] housekeeping:', (e as Error).message)
     }
   })
-  const timer = setInterval(tick, everyMs)
+  // Cloud forecasts for trips in their eclipse week: hourly per trip, and once at start-up; its own
+  // lease and single flight, so a slow forecast service never holds up the seat and money work.
+  let forecastsAtStart = true
+  const forecastTick = singleFlight(async () => {
+    try {
+      await dbReady()
+      const ran = await withLease(useDb(), 'forecasts', everyMs * 2, async () => {
+        await fetchDueForecasts(useDb(), useRuntimeConfig().forecastApiUrl, { force: forecastsAtStart })
+      })
+      if (ran) forecastsAtStart = false
+    } catch (e) {
+      console.error('[umbrafield] forecasts:', (e as Error).message)
+    }
+  })
+  void forecastTick()
+  const timer = setInterval(() => { void tick(); void forecastTick() }, everyMs)
   timer.unref()
   nitro.hooks.hook('close', () => clearInterval(timer))
 })

@@ -6,6 +6,7 @@ import { NotAssignedError, TripConflictError, TripRuleError } from '../services/
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
 import { VoyageUnreachable } from '../services/sea/voyagePlan'
+import { ForecastUnavailableError, TooEarlyError } from '../services/forecasts'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -27,6 +28,8 @@ export function httpErrorFor(e: unknown): Error | null {
     return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
   }
   if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
+  if (e instanceof TooEarlyError) return createError({ statusCode: 409, statusMessage: 'Too early', message: e.message, data: { code: 'too_early', daysToWait: e.daysToWait, opensOn: e.opensOn } })
+  if (e instanceof ForecastUnavailableError) return createError({ statusCode: 502, statusMessage: 'Forecast unavailable', message: e.message, data: { code: 'forecast_unavailable' } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   if (e instanceof VoyageUnreachable) return createError({ statusCode: 422, statusMessage: 'Unreachable', message: e.message, data: { code: 'unreachable', reason: e.reason } })
   return null

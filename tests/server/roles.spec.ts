@@ -219,6 +219,10 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Forecast outlook ──
+  { method: 'GET', file: 'trips/[id]/outlook/index.get', path: () => `/api/trips/${fx.luxorTrip}/outlook`, want: STAFF(409), note: 'the suite runs months before the eclipse: 409 too_early (the trip\'s guides and organisers get that far)' },
+  { method: 'POST', file: 'trips/[id]/outlook/refresh.post', path: () => `/api/trips/${fx.luxorTrip}/outlook/refresh`, body: json({}), want: ORGANISER_ONLY(409), note: 'too early to fetch, as above' },
+  { method: 'PUT', file: 'trips/[id]/outlook/sites/[siteId].put', path: () => `/api/trips/${fx.luxorTrip}/outlook/sites/${fx.luxorSite}`, body: json({ driveMinutes: 20 }), want: ORGANISER_ONLY(200) },
+  { method: 'DELETE', file: 'trips/[id]/outlook/sites/[siteId].delete', path: () => `/api/trips/${fx.luxorTrip}/outlook/sites/${fx.luxorSite}`, want: ORGANISER_ONLY(200), note: 'idempotent: removing nothing is fine' },
   // (end of block)
 
   // ── The day's decision and acknowledgements ──

@@ -1,0 +1,18 @@
+import { z } from 'zod'
+
+/** Path of the outlook's per-site routes: the trip and one of its workspace's sites. */
+export const OutlookSiteParams = z.object({
+  id: z.coerce.number().int().positive(),
+  siteId: z.coerce.number().int().positive(),
+})
+
+/**
+ * Adds a site to a trip's outlook (when it is not already the primary or a fallback) and sets its
+ * drive time from the meeting point: whole minutes, or null to use the estimate from the distance.
+ */
+export const OutlookSiteBody = z.object({
+  driveMinutes: z.number({ error: 'driveMinutes must be a whole number of minutes or null' })
+    .int('driveMinutes must be a whole number of minutes').min(0, 'driveMinutes cannot be negative').max(48 * 60, 'driveMinutes is at most 2880 (two days)')
+    .nullable().default(null),
+})
+export type OutlookSiteInput = z.infer<typeof OutlookSiteBody>
