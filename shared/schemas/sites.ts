@@ -21,6 +21,8 @@ export const SiteCreate = z.object({
 export type SiteCreateInput = z.infer<typeof SiteCreate>
 
 export const SitePatch = SiteCreate.partial().extend({
+  /** A height, or null to mark it "not set" again. */
+  elevationM: elevationM.nullable().optional(),
   pinned: z.boolean().optional(),
   /** Manual cloud cover for this site, percent, or null to clear it; needs a source note. */
   cloudOverridePct: z.number({ error: 'cloudOverridePct must be a number or null' }).min(0, 'cloudOverridePct must be 0–100').max(100, 'cloudOverridePct must be 0–100').nullable().optional(),
@@ -149,7 +151,14 @@ export interface SiteOut {
   name: string
   lat: number
   lon: number
-  elevationM: number
+  /** The site's height, m, or null when nobody set one (shown as "not set", never "0 m"). */
+  elevationM: number | null
+  /** Where the height came from: typed or imported ('given'), the workspace's terrain model ('terrain'), or null (not set). */
+  elevationSource: 'given' | 'terrain' | null
+  /** The height the contacts are computed for, m: the site's own, or sea level (0 m) while it is not set. */
+  assumedElevationM: number
+  /** The site still carries a name the planning page made up: rename it before publishing a trip that uses it. */
+  nameAutomatic: boolean
   notes: string
   roadAccess: string
   capacity: number | null
