@@ -33,7 +33,7 @@ describe('site CSV rows', () => {
     ])
     expect(rows).toHaveLength(1)
     expect(errors).toEqual(expect.arrayContaining([
-      { row: 3, field: 'lat', message: 'lat must be a decimal number' },
+      { row: 3, field: 'lat', message: 'Latitude must be a decimal number' },
       { row: 4, field: 'name', message: 'name is required' },
       { row: 4, field: 'lon', message: 'lon must be -180 to 180' },
     ]))
