@@ -1,6 +1,9 @@
-import type { Kysely } from 'kysely'
+import type { Kysely, Selectable } from 'kysely'
+import { greatestEclipse } from '../../shared/eclipse/greatest'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
+import { cloudAt, eclipseMonth, monthGrids } from './climatology'
+import { elementsInForce } from './eclipses'
 import { getSite, siteWithMetrics } from './planning'
 import { terrainFor } from './terrain'
 import { nowIso } from './clock'
@@ -49,3 +52,44 @@ export async function fillHeightFromTerrain(db: Kysely<Database>, user: User, si
   return siteWithMetrics(db, siteId)
 }
 
+
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
+export const monthName = (m: number) => MONTHS[m - 1] ?? `month ${m}`
+
+/**
+ * Whether the workspace's chosen climatology covers its eclipse: the eclipse month, and the ground
+ * it plans on (its sites, or the point of greatest eclipse while it has none). One warning naming
+ * what is missing, or null; no dataset chosen is not a gap (the cloud panel says so itself).
+ */
+export async function climatologyCoverage(db: Kysely<Database>, ws: Selectable<Database['workspaces']>) {
+  const month = eclipseMonth(ws.eclipse_id)
+  const base = { month, monthName: monthName(month) }
+  if (!ws.climatology_id) return { ...base, missing: null, warning: null }
+  const meta = await db.selectFrom('climatology_datasets').select(['name']).where('id', '=', ws.climatology_id).executeTakeFirst()
+  if (!meta) return { ...base, missing: null, warning: null }
+  const grids = await monthGrids(db, ws.climatology_id, month)
+  if (!grids) {
+    const held = (await db.selectFrom('climatology_grids').select('month').where('dataset_id', '=', ws.climatology_id).orderBy('month').execute()).map((r) => monthName(r.month))
+    return {
+      ...base, missing: 'month' as const,
+      warning: `The climatology "${meta.name}" has no data for ${monthName(month)}, the eclipse month (it holds ${held.join(', ') || 'no months'}). `
+        + 'Cloud figures are missing, and expected seen seconds fall back to the central duration alone.',
+    }
+  }
+  const sites = await db.selectFrom('sites').select(['name', 'lat', 'lon']).where('workspace_id', '=', ws.id).orderBy('id').execute()
+  let points = sites
+  if (!points.length) {
+    const { el } = await elementsInForce(db, ws.eclipse_id)
+    const g = greatestEclipse(el)
+    points = [{ name: 'the point of greatest eclipse', lat: g.latDeg, lon: g.lonDeg }]
+  }
+  const outside = points.filter((p) => cloudAt(grids, p.lat, p.lon).pClear === null)
+  if (!outside.length) return { ...base, missing: null, warning: null }
+  const names = outside.slice(0, 5).map((p) => p.name).join(', ') + (outside.length > 5 ? ` and ${outside.length - 5} more` : '')
+  const all = outside.length === points.length
+  return {
+    ...base, missing: 'region' as const,
+    warning: `The climatology "${meta.name}" has no ${monthName(month)} data ${all ? 'over this workspace\'s region' : 'at some of its sites'} (${names}): `
+      + 'those places have no cloud figures.',
+  }
+}

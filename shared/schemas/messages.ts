@@ -18,8 +18,8 @@ export const FIELD_LABELS: Record<string, string> = {
   minGroupSize: 'minimum group size', meetingPoint: 'meeting point', time: 'meeting time', guideIds: 'guides', items: 'checklist',
   siteId: 'site', amountMinor: 'amount', reason: 'reason', source: 'source', licence: 'licence', years: 'years', timeOfDay: 'time of day',
   month: 'month', offsets: 'cue offsets', margins: 'margins', sigmas: 'margin in σ', endSec: 'end margin', step: 'step', wrap: 'wrapping',
-  from: 'first year', to: 'last year', type: 'eclipse type', id: 'number', advanceMs: 'clock step', requireStaffTotp: 'two-factor rule',
-  date: 'date', t0Tdt: 't0', tanF1: 'tan f1', tanF2: 'tan f2', file: 'file', sites: 'sites',
+  from: 'first year', to: 'last year', type: 'eclipse type', advanceMs: 'clock step', requireStaffTotp: 'two-factor rule',
+  date: 'date', t0Tdt: 't0', id: 'record number', tanF1: 'tan f1', tanF2: 'tan f2', file: 'file', sites: 'sites',
 }
 
 /** A key in words: the label, or the key's own words ("radiusKm" → "radius km"). */

@@ -154,3 +154,70 @@ describe(`heights that were never set (${TEST_DB})`, () => {
     expect((await api(`/api/sites/${id}`, { method: 'PATCH', cookie: org, body: { elevationM: null } })).body).toMatchObject({ elevationM: null, elevationSource: null })
   })
 })
+
+describe(`forms speak plainly (${TEST_DB})`, () => {
+  const raw = /Invalid (body|query|path)|\b(seats|radiusKm|minSeparationKm|capacity|lat|password):/
+
+  it('names the field in words in every 400, with the message beside its key', async () => {
+    const trav = await signIn('traveller@umbrafield.test')
+    const org = await signIn(ORGANISER)
+    const seats = await api('/api/trips/1/bookings', { method: 'POST', cookie: trav, body: { seats: 0 } })
+    expect(seats.status).toBe(400)
+    expect(seats.body.data.fields.seats).toBe('Choose at least one seat')
+    expect(seats.body.message).toBe('Choose at least one seat')
+    const cases: Array<[string, Promise<{ status: number; body: any }>, string, RegExp]> = [
+      ['search radius', api(`/api/workspaces/1/best-spots?lat=${LUXOR.lat}&lon=${LUXOR.lon}&radiusKm=far`, { cookie: org }), 'radiusKm', /^The search radius must be a number$/],
+      ['separation', api(`/api/workspaces/1/best-spots?lat=${LUXOR.lat}&lon=${LUXOR.lon}&minSeparationKm=900`, { cookie: org }), 'minSeparationKm', /^The distance between spots must be 1–500 km$/],
+      ['latitude', api('/api/workspaces/1/sites', { method: 'POST', cookie: org, body: { name: 'Too far north', lat: 95, lon: 10 } }), 'lat', /^Latitude must be −90 to 90°$/],
+      ['capacity', api('/api/workspaces/1/sites', { method: 'POST', cookie: org, body: { name: 'Crowded', lat: 25, lon: 32, capacity: 1.5 } }), 'capacity', /^Capacity must be a whole number of people$/],
+      // A check with no message of its own gets the plain fallback (the password's length cap).
+      ['fallback', api('/api/auth/login', { method: 'POST', body: { email: 'someone@umbrafield.test', password: 'p'.repeat(300) } }), 'password', /^Password is too long \(at most 200 characters\)$/],
+    ]
+    for (const [what, pending, field, want] of cases) {
+      const r = await pending
+      expect(r.status, what).toBe(400)
+      expect(r.body.data.fields[field], what).toMatch(want)
+      expect(r.body.message, what).not.toMatch(raw)
+      expect(r.body.message, what).toContain(r.body.data.fields[field])
+    }
+  })
+})
+
+describe(`climatology coverage (${TEST_DB})`, () => {
+  async function uploadGrid(name: string, csv: string, cookie: string) {
+    const form = new FormData()
+    form.append('name', name)
+    form.append('source', 'test fixture (invented)')
+    form.append('file', new Blob([csv]), 'grid.csv')
+    const res = await fetch(url('/api/climatology'), { method: 'POST', body: form, headers: { cookie } })
+    return { status: res.status, body: await res.json() }
+  }
+  const grid = (lats: number[], lons: number[], month: number) =>
+    ['lat,lon,month,cloud_pct', ...lats.flatMap((la) => lons.map((lo) => `${la},${lo},${month},30`))].join('\n')
+
+  it('warns once, naming the missing month or the places outside the grid, and not when covered', async () => {
+    const org = await signIn(ORGANISER)
+    const before = (await api('/api/workspaces/1', { cookie: org })).body
+    expect(before.coverage.warning).toBeNull()
+    expect(before.coverage.monthName).toBe('August')
+
+    const march = await uploadGrid('March only (test)', grid([20, 40], [0, 50], 3), org)
+    expect(march.status).toBe(201)
+    expect((await api('/api/workspaces/1', { method: 'PATCH', cookie: org, body: { climatologyId: march.body.id } })).status).toBe(200)
+    const noMonth = (await api('/api/workspaces/1', { cookie: org })).body.coverage
+    expect(noMonth.missing).toBe('month')
+    expect(noMonth.warning).toMatch(/"March only \(test\)" has no data for August, the eclipse month \(it holds March\)/)
+
+    // August data, but only over the Strait of Gibraltar (35–37° N, 7–5° W): the Nile sites lie outside it.
+    const strait = await uploadGrid('Strait only (test)', grid([35, 37], [-7, -5], 8), org)
+    expect(strait.status).toBe(201)
+    await api('/api/workspaces/1', { method: 'PATCH', cookie: org, body: { climatologyId: strait.body.id } })
+    const partly = (await api('/api/workspaces/1', { cookie: org })).body.coverage
+    expect(partly.missing).toBe('region')
+    expect(partly.warning).toMatch(/no August data at some of its sites \(.*Luxor West Bank/)
+    expect(partly.warning).not.toMatch(/Tarifa/)
+
+    await api('/api/workspaces/1', { method: 'PATCH', cookie: org, body: { climatologyId: before.climatologyId } })
+    expect((await api('/api/workspaces/1', { cookie: org })).body.coverage.warning).toBeNull()
+  })
+})
