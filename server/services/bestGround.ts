@@ -180,7 +180,7 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
   const found = picked
     .map((p) => ({ ...spotFigures(ctx, p.lat, wrapLon(p.lon)), distanceKm: r1(haversineKm(q.lat, q.lon, p.lat, p.lon)) }))
     .filter((s) => s.durationSec > 0 && s.sunAltitudeDeg !== null && s.sunAltitudeDeg >= q.minSunAltitudeDeg)
-  const { data, secondsPer50Km } = rankByDistance(found.map((s) => ({ ...s, elevationFrom: ctx.terrain?.heightAt(s.lat, s.lon) != null ? 'terrain' as const : null })))
+  const { data, secondsPer50Km } = rankByDistance(found.map((s) => ({ ...s, elevationFrom: (ctx.terrain?.heightAt(s.lat, s.lon) ?? null) !== null ? 'terrain' as const : null })))
   return {
     data,
     meta: {

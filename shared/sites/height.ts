@@ -1,7 +1,7 @@
 /**
- * A site's height when nobody has set one. Contacts are computed at sea level then: on the WGS 84
- * ellipsoid, 1 km of height moves a contact by at most a second or so (the observer sits 1 km nearer
- * the shadow axis), so the assumption matters little for timing but is said wherever a timetable shows.
+ * A site's height when nobody has set one. Contacts are computed at sea level then: 1 km of height
+ * moves the observer by up to about 1 km on the fundamental plane, which the shadow crosses in one or
+ * two seconds, so the assumption matters little for timing but is said wherever a timetable shows.
  */
 export const ASSUMED_HEIGHT_M = 0
 
