@@ -170,8 +170,8 @@ describe(`forms speak plainly (${TEST_DB})`, () => {
       ['separation', api(`/api/workspaces/1/best-spots?lat=${LUXOR.lat}&lon=${LUXOR.lon}&minSeparationKm=900`, { cookie: org }), 'minSeparationKm', /^The distance between spots must be 1–500 km$/],
       ['latitude', api('/api/workspaces/1/sites', { method: 'POST', cookie: org, body: { name: 'Too far north', lat: 95, lon: 10 } }), 'lat', /^Latitude must be −90 to 90°$/],
       ['capacity', api('/api/workspaces/1/sites', { method: 'POST', cookie: org, body: { name: 'Crowded', lat: 25, lon: 32, capacity: 1.5 } }), 'capacity', /^Capacity must be a whole number of people$/],
-      // A check with no message of its own gets the plain fallback (the password's length cap).
-      ['fallback', api('/api/auth/login', { method: 'POST', body: { email: 'someone@umbrafield.test', password: 'p'.repeat(300) } }), 'password', /^Password is too long \(at most 200 characters\)$/],
+      // A check with no message of its own gets the plain fallback (the current password's length cap; nothing changes).
+      ['fallback', api('/api/me', { method: 'PATCH', cookie: trav, body: { currentPassword: 'p'.repeat(300) } }), 'currentPassword', /^Current password is too long \(at most 200 characters\)$/],
     ]
     for (const [what, pending, field, want] of cases) {
       const r = await pending
