@@ -31,4 +31,10 @@ test('a site form shows the server\'s message in words beside the field', async 
   // Without a terrain model the fill button says so, in words, beside the same field.
   await page.getByRole('button', { name: 'Fill from the terrain model' }).click()
   await expect(page.getByRole('alert').filter({ hasText: /no terrain model yet/ })).toBeVisible()
+
+  // The examples come from this workspace's own ground (its first site), and a town search that finds nothing says so.
+  await expect(page.getByLabel('Latitude, longitude')).toHaveAttribute('placeholder', 'e.g. 25.9000, 32.7000')
+  await page.getByRole('tab', { name: 'Town search' }).click()
+  await page.getByLabel('Town (offline list of places)').fill('Qxzwv')
+  await expect(page.getByTestId('town-none')).toHaveText(/No town in the offline list matches "Qxzwv"/)
 })
