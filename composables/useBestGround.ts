@@ -17,7 +17,7 @@ export function useExpectedSeen(workspaceId: Ref<number>) {
 }
 
 /** The best ground near a point; runs when asked (execute), not on every change of the form. */
-export function useBestSpots(workspaceId: Ref<number>, query: Ref<{ lat: number; lon: number; radiusKm: number; limit: number; minSunAltitudeDeg: number } | null>) {
+export function useBestSpots(workspaceId: Ref<number>, query: Ref<{ lat: number; lon: number; radiusKm: number; limit: number; minSunAltitudeDeg: number; minSeparationKm?: number } | null>) {
   return useFetch<BestSpots>(() => `/api/workspaces/${workspaceId.value}/best-spots`, {
     key: computed(() => `best-spots:${workspaceId.value}`), query, server: false, immediate: false, watch: false,
   })

@@ -1,7 +1,11 @@
 import type { Ref } from 'vue'
 import type { SiteOut } from '#shared/schemas/sites'
 
-export interface WorkspaceView { id: number; eclipseId: string; name: string; createdAt?: string; climatologyId?: number | null }
+export interface WorkspaceView {
+  id: number; eclipseId: string; name: string; createdAt?: string; climatologyId?: number | null
+  /** Whether the chosen climatology covers the eclipse month and the workspace's ground: one warning naming what is missing. */
+  coverage?: { month: number; monthName: string; missing: 'month' | 'region' | null; warning: string | null }
+}
 
 export function useWorkspaces() {
   return useFetch<{ data: WorkspaceView[] }>('/api/workspaces', { key: 'workspaces' })

@@ -1,12 +1,14 @@
 import type { TypedSchema } from 'vee-validate'
 import type { ZodType } from 'zod'
+import { plainError } from '#shared/schemas/messages'
 
 /** Adapts a zod 4 schema (shared with the server route) to vee-validate's typed-schema interface. */
 export function zodSchema<T>(schema: ZodType<T>): TypedSchema<T, T> {
   return {
     __type: 'VVTypedSchema',
     async parse(values: unknown) {
-      const r = await schema.safeParseAsync(values)
+      // The same words the server uses for a check that has no message of its own.
+      const r = await schema.safeParseAsync(values, { error: plainError })
       if (r.success) return { value: r.data, errors: [] }
       const byPath = new Map<string, string[]>()
       for (const issue of r.error.issues) {

@@ -41,9 +41,11 @@ test('an organiser finds the best ground near Luxor, adds it, and a site behind 
   await page.getByRole('button', { name: 'Find', exact: true }).click()
   const list = page.getByTestId('best-spots')
   await expect(list.locator('li')).toHaveCount(5)
-  const firstExpected = Number((await list.locator('li').first().getByText(/s expected/).textContent())!.match(/([\d.]+) s expected/)![1])
+  // Near-ties (within a few seconds) are listed nearest first, so the best is the largest figure listed.
+  const listed = (await list.locator('li').getByText(/s expected/).allTextContents()).map((t) => Number(t.match(/([\d.]+) s expected/)![1]))
+  const bestExpected = Math.max(...listed)
   const sites = (await (await page.request.get(`/api/workspaces/${ws.id}/sites`)).json()).data as Array<{ metrics: { expectedSec: number } }>
-  for (const s of sites) expect(firstExpected).toBeGreaterThanOrEqual(s.metrics.expectedSec - 0.1)
+  for (const s of sites) expect(bestExpected).toBeGreaterThanOrEqual(s.metrics.expectedSec - 0.1)
   await page.getByRole('button', { name: 'Add spot 1 as a candidate site' }).click()
   const rows = page.getByRole('table', { name: 'Site comparison' }).locator('tbody tr')
   await expect(rows.filter({ hasText: 'Best ground 1' })).toHaveCount(1)

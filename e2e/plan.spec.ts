@@ -48,7 +48,7 @@ test.describe('organiser planning page', () => {
 
     await page.getByRole('tab', { name: 'CSV file' }).click()
     await page.getByLabel(/CSV with columns/).setInputFiles({ name: 'bad.csv', mimeType: 'text/csv', buffer: Buffer.from('name,lat,lon\nGood,25,32\nBad,abc,32\n') })
-    await expect(page.getByRole('alert')).toContainText('Row 3, lat: lat must be a decimal number')
+    await expect(page.getByRole('alert')).toContainText('Row 3: Latitude must be a decimal number')
     await expect(page.getByRole('button', { name: 'Import sites', exact: true })).toBeDisabled()
     await page.getByLabel(/CSV with columns/).setInputFiles({ name: 'good.csv', mimeType: 'text/csv', buffer: Buffer.from('name,lat,lon,elevation\nDendera,26.142,32.67,90\nAbydos,26.185,31.919,80\n') })
     await page.getByRole('button', { name: 'Import 2 sites' }).click()

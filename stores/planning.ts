@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 
-export interface BestGroundSearch { lat: number; lon: number; radiusKm: number; limit: number; minSunAltitudeDeg: number }
+export interface BestGroundSearch { lat: number; lon: number; radiusKm: number; limit: number; minSunAltitudeDeg: number; minSeparationKm?: number }
 
 /**
  * Client state shared across the planning page's map and panels: the selected site, whether clicks

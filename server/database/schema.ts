@@ -84,7 +84,12 @@ export interface SitesTable {
   lat: number
   /** Longitude, degrees east. */
   lon: number
+  /** Height above the ellipsoid's sea level, m; 0 while elevation_source is null (not set: contacts assume sea level). */
   elevation_m: ColumnType<number, number | undefined, number>
+  /** Where the height came from: 'given' (typed or imported), 'terrain' (the workspace's height model), or null (never set). */
+  elevation_source: ColumnType<'given' | 'terrain' | null, 'given' | 'terrain' | null | undefined, 'given' | 'terrain' | null>
+  /** 1 while the site carries a name the planning page made up ("Best ground 1 (…)"): trips using it cannot be published. */
+  name_auto: ColumnType<number, number | undefined, number>
   notes: ColumnType<string, string | undefined, string>
   road_access: ColumnType<(typeof ROAD_ACCESS)[number], (typeof ROAD_ACCESS)[number] | undefined, (typeof ROAD_ACCESS)[number]>
   capacity: number | null

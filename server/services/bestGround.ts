@@ -3,7 +3,7 @@ import { performance } from 'node:perf_hooks'
 import { centralDurationEvaluator } from '../../shared/eclipse/centralDuration'
 import { localCircumstances } from '../../shared/eclipse/local'
 import { haversineKm } from '../../shared/geo/distance'
-import { BEST_SPOT_SEPARATION_KM, type BestSpotsInput } from '../../shared/schemas/bestGround'
+import { BEST_SPOT_TIE_SEC, type BestSpotsInput } from '../../shared/schemas/bestGround'
 import type { Database } from '../database/schema'
 import { resolveTimeBasis, timeBasisOut } from '../eclipse/report'
 import { expectedSeenGrid, SURFACE_MARGIN_KM, SURFACE_STEP_DEG, surfaceBands, wrapLon } from '../eclipse/surface'
@@ -116,7 +116,7 @@ export async function expectedSeenAt(db: Kysely<Database>, workspaceId: number, 
 /**
  * The best ground near a point: a grid of at most SEARCH_GRID_MAX_POINTS points over the disc (spacing
  * radius/100, at least 1 km, wider near a pole; see searchGrid), ranked by expected seen seconds (or duration without a climatology),
- * taken greedily on land and at least 5 km apart, each then nudged uphill in its own cell, and
+ * taken greedily on land and at least `minSeparationKm` apart (default 25 km), each then nudged uphill in its own cell, and
  * finally evaluated exactly as the local-circumstances route does.
  */
 export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: BestSpotsInput) {
@@ -142,8 +142,10 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
   }
   const evaluated = candidates.length
   candidates.sort((a, b) => b.score - a.score)
+  // 50 m over the asked separation, so the coordinates returned (4 decimals, ±6 m each) still keep it.
+  const separationKm = q.minSeparationKm + 0.05
   const farEnough = (lat: number, lon: number, others: Array<{ lat: number; lon: number }>) =>
-    others.every((o) => haversineKm(lat, lon, o.lat, o.lon) >= BEST_SPOT_SEPARATION_KM)
+    others.every((o) => haversineKm(lat, lon, o.lat, o.lon) >= separationKm)
   const picked: Array<{ lat: number; lon: number; score: number }> = []
   let landChecks = 0
   for (const c of candidates) {
@@ -154,7 +156,7 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
     picked.push({ ...c })
   }
   // Nudge each spot uphill within its own grid cell (pattern search down to 50 m), staying on land,
-  // inside the disc and 5 km from the others.
+  // inside the disc and the asked separation from the others.
   for (const p of picked) {
     const others = picked.filter((o) => o !== p)
     for (let hKm = stepKm / 2; hKm >= 0.05; hKm /= 2) {
@@ -175,19 +177,53 @@ export async function bestSpots(db: Kysely<Database>, workspaceId: number, q: Be
       }
     }
   }
-  const data = picked
+  const found = picked
     .map((p) => ({ ...spotFigures(ctx, p.lat, wrapLon(p.lon)), distanceKm: r1(haversineKm(q.lat, q.lon, p.lat, p.lon)) }))
     .filter((s) => s.durationSec > 0 && s.sunAltitudeDeg !== null && s.sunAltitudeDeg >= q.minSunAltitudeDeg)
-    .sort((a, b) => (b.expectedSec ?? b.durationSec) - (a.expectedSec ?? a.durationSec) || a.distanceKm - b.distanceKm)
+  const { data, secondsPer50Km } = rankByDistance(found.map((s) => ({ ...s, elevationFrom: (ctx.terrain?.heightAt(s.lat, s.lon) ?? null) !== null ? 'terrain' as const : null })))
   return {
     data,
     meta: {
       measure: pAt ? 'expected' as const : 'duration' as const,
-      radiusKm: q.radiusKm, gridStepKm: r1(stepKm), gridPoints: grid.points.length, separationKm: BEST_SPOT_SEPARATION_KM, pointsInPath: evaluated, landChecks,
+      radiusKm: q.radiusKm, gridStepKm: r1(stepKm), gridPoints: grid.points.length, separationKm: q.minSeparationKm, tieSec: BEST_SPOT_TIE_SEC, secondsPer50Km, pointsInPath: evaluated, landChecks,
       note: climatologyNote(ctx),
+      trade: tradeNote(secondsPer50Km),
       land: 'Natural Earth 1:10m land (public domain): coastlines are good to about 1 km.',
       elevation: ctx.terrain ? `heights from the terrain model "${ctx.terrain.name}" where it covers a spot, else sea level` : 'sea level (no terrain model uploaded)',
       computedMs: Math.round(performance.now() - started),
     },
   }
+}
+
+/** The figure a spot is ranked by: expected seen seconds, or the central duration without a climatology. */
+const measureOf = (s: { expectedSec: number | null; durationSec: number }) => s.expectedSec ?? s.durationSec
+
+/**
+ * Orders spots best first, except that among spots within BEST_SPOT_TIE_SEC of the best one left,
+ * the nearest to the search centre comes first. Each spot gets `extraSecPer50Km`: the seconds it
+ * gains (or loses) over the nearest spot for each 50 km further it lies (null for the nearest itself,
+ * or one no further away); `secondsPer50Km` is that figure for the best spot (0 when the best is
+ * the nearest: driving further buys nothing).
+ */
+export function rankByDistance<T extends { expectedSec: number | null; durationSec: number; distanceKm: number }>(spots: T[]) {
+  const rest = [...spots].sort((a, b) => measureOf(b) - measureOf(a) || a.distanceKm - b.distanceKm)
+  const ordered: T[] = []
+  while (rest.length) {
+    const top = measureOf(rest[0]!)
+    let pick = 0
+    rest.forEach((s, i) => { if (top - measureOf(s) <= BEST_SPOT_TIE_SEC && s.distanceKm < rest[pick]!.distanceKm) pick = i })
+    ordered.push(rest.splice(pick, 1)[0]!)
+  }
+  const nearest = spots.reduce<T | null>((n, s) => (n === null || s.distanceKm < n.distanceKm ? s : n), null)
+  const per50 = (s: T) => (nearest === null || s === nearest || s.distanceKm <= nearest.distanceKm
+    ? null : r1(((measureOf(s) - measureOf(nearest)) / (s.distanceKm - nearest.distanceKm)) * 50))
+  const best = spots.reduce<T | null>((b, s) => (b === null || measureOf(s) > measureOf(b) ? s : b), null)
+  const data = ordered.map((s) => ({ ...s, extraSecPer50Km: per50(s) }))
+  return { data, secondsPer50Km: best === null ? null : per50(best) ?? 0 }
+}
+
+function tradeNote(secondsPer50Km: number | null): string | null {
+  if (secondsPer50Km === null) return null
+  if (secondsPer50Km <= 0) return 'The nearest spot is also the best: going further buys nothing.'
+  return `Going from the nearest spot to the best buys ${secondsPer50Km.toFixed(1)} s for each extra 50 km. Spots within ${BEST_SPOT_TIE_SEC} s of each other are listed nearest first.`
 }

@@ -22,7 +22,7 @@ export function toGeoJson(name: string, path: FeatureCollection, sites: SiteOut[
       ...path.features,
       ...sites.map((s) => ({
         type: 'Feature',
-        geometry: { type: 'Point', coordinates: [s.lon, s.lat, s.elevationM] },
+        geometry: { type: 'Point', coordinates: s.elevationM === null ? [s.lon, s.lat] : [s.lon, s.lat, s.elevationM] },
         properties: { kind: 'site', id: s.id, name: s.name, notes: s.notes, ...s.metrics },
       })),
     ],
@@ -43,7 +43,7 @@ export function toKml(name: string, path: FeatureCollection, sites: SiteOut[]): 
       }
     }
   }
-  const marks = sites.map((s) => `<Placemark><name>${esc(s.name)}</name><description>${esc(siteDescription(s))}</description><styleUrl>#site</styleUrl><Point><coordinates>${s.lon},${s.lat},${s.elevationM}</coordinates></Point></Placemark>`)
+  const marks = sites.map((s) => `<Placemark><name>${esc(s.name)}</name><description>${esc(siteDescription(s))}</description><styleUrl>#site</styleUrl><Point><coordinates>${s.lon},${s.lat}${s.elevationM === null ? '' : `,${s.elevationM}`}</coordinates></Point></Placemark>`)
   return `<?xml version="1.0" encoding="UTF-8"?>
 <kml xmlns="http://www.opengis.net/kml/2.2"><Document><name>${esc(name)}</name>
 <Style id="centreline"><LineStyle><color>ff33aeee</color><width>3</width></LineStyle></Style>
@@ -57,7 +57,7 @@ export function toKml(name: string, path: FeatureCollection, sites: SiteOut[]): 
 
 /** GPX 1.1 waypoints, one per site. */
 export function toGpx(name: string, sites: SiteOut[]): string {
-  const wpts = sites.map((s) => `  <wpt lat="${s.lat}" lon="${s.lon}"><ele>${s.elevationM}</ele><name>${esc(s.name)}</name><desc>${esc(siteDescription(s))}</desc></wpt>`)
+  const wpts = sites.map((s) => `  <wpt lat="${s.lat}" lon="${s.lon}">${s.elevationM === null ? '' : `<ele>${s.elevationM}</ele>`}<name>${esc(s.name)}</name><desc>${esc(siteDescription(s))}</desc></wpt>`)
   return `<?xml version="1.0" encoding="UTF-8"?>
 <gpx version="1.1" creator="Umbrafield" xmlns="http://www.topografix.com/GPX/1/1">
   <metadata><name>${esc(name)}</name></metadata>

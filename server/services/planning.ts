@@ -2,6 +2,7 @@ import { find as findZone } from 'geo-tz'
 import type { Kysely } from 'kysely'
 import type { BesselianElements } from '../../shared/eclipse/types'
 import { NO_CLIMATOLOGY, type SiteCloud, type SiteCreateInput, type SiteMetrics, type SiteOut, type SitePatchInput } from '../../shared/schemas/sites'
+import { isAutomaticSiteName } from '../../shared/sites/names'
 import { localTime } from '../../shared/time/local'
 import type { Database, SiteRow, User } from '../database/schema'
 import { localReport } from '../eclipse/report'
@@ -52,7 +53,9 @@ export function siteMetrics(eclipseId: string, el: BesselianElements, deltaT: nu
 
 export function siteOut(row: SiteRow, metrics: SiteMetrics): SiteOut {
   return {
-    id: row.id, workspaceId: row.workspace_id, name: row.name, lat: row.lat, lon: row.lon, elevationM: row.elevation_m,
+    id: row.id, workspaceId: row.workspace_id, name: row.name, lat: row.lat, lon: row.lon,
+    elevationM: row.elevation_source ? row.elevation_m : null, elevationSource: row.elevation_source ?? null,
+    assumedElevationM: row.elevation_source ? row.elevation_m : 0, nameAutomatic: !!row.name_auto,
     notes: row.notes, roadAccess: row.road_access, capacity: row.capacity, crossesBorder: !!row.crosses_border,
     pinned: !!row.pinned, cloudOverridePct: row.cloud_override_pct ?? null, cloudOverrideNote: row.cloud_override_note ?? null, metrics,
   }
@@ -111,10 +114,14 @@ export async function listSites(db: Kysely<Database>, workspaceId: number): Prom
 
 function toValues(input: SiteCreateInput | SitePatchInput) {
   const v: Record<string, unknown> = {}
-  if (input.name !== undefined) v.name = input.name
+  if (input.name !== undefined) { v.name = input.name; v.name_auto = isAutomaticSiteName(input.name) ? 1 : 0 }
   if (input.lat !== undefined) v.lat = input.lat
   if (input.lon !== undefined) v.lon = input.lon
-  if (input.elevationM !== undefined) v.elevation_m = input.elevationM
+  if (input.elevationM !== undefined) {
+    // null marks the height "not set" again: contacts then assume sea level.
+    v.elevation_m = input.elevationM ?? 0
+    v.elevation_source = input.elevationM === null ? null : 'given'
+  }
   if (input.notes !== undefined) v.notes = input.notes
   if (input.roadAccess !== undefined) v.road_access = input.roadAccess
   if (input.capacity !== undefined) v.capacity = input.capacity
@@ -170,8 +177,10 @@ export async function getSite(db: Kysely<Database>, id: number): Promise<SiteRow
 }
 
 export async function updateSite(db: Kysely<Database>, id: number, patch: SitePatchInput): Promise<void> {
-  await getSite(db, id)
+  const before = await getSite(db, id)
   const v = toValues(patch)
+  // Saving the form with the name unchanged keeps whatever the name was.
+  if (patch.name !== undefined && patch.name === before.name) { delete v.name; delete v.name_auto }
   if (Object.keys(v).length === 0) return
   await db.updateTable('sites').set({ ...v, updated_at: nowIso() } as never).where('id', '=', id).execute()
 }

@@ -2,6 +2,7 @@ import type { Kysely } from 'kysely'
 import { deltaTHourAngleRad } from '../../shared/eclipse/besselian'
 import { shadowApproachFromDeg } from '../../shared/eclipse/local'
 import { isoTenths, utcMsToT } from '../../shared/eclipse/time'
+import { HEIGHT_NOT_SET_NOTE } from '../../shared/sites/height'
 import type { BesselianElements } from '../../shared/eclipse/types'
 import { compassShort, compassWords, cueOffsetProblems, planCues, type CueAnchor, type CueInput } from '../../shared/safety/cues'
 import { localKindOf, phaseWords, safetyLines } from '../../shared/safety/text'
@@ -103,6 +104,8 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }, { profile: false })
     return {
       siteId: s.id, name: s.name, role: i === 0 ? 'primary' : 'backup', lat: s.lat, lon: s.lon, elevationM: s.elevation_m,
+      /** False while nobody set the site's height: elevationM is then the sea level the contacts assume. */
+      elevationSet: s.elevation_source !== null, heightNote: s.elevation_source === null ? HEIGHT_NOT_SET_NOTE : null,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(nowMs(), zone).utcOffset,
       type: r.type, kind, words: phaseWords(kind), durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
       contacts, cues, notice: plan.notice,

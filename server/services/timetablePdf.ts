@@ -33,7 +33,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     const headW = width - 110
     doc.font('ws-bold').fontSize(18).fillColor(INK).text(s.name, left, 54, { width: headW })
     doc.font('ws').fontSize(10).fillColor(INK).text(`${t.trip.title} · eclipse of ${t.trip.eclipseId}`, { width: headW })
-    doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationM} m · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
+    doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationSet ? `${s.elevationM} m` : 'height not set (sea level assumed)'} · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
     if (s.role === 'backup') {
       doc.text(plain(`Fallback ${s.chase.rank} of ${t.sites.length - 1}${s.chase.expectedSec !== null ? ` · ${s.chase.expectedSec.toFixed(0)} s expected seen` : ''} · ${s.chase.distanceKm.toFixed(0)} km from ${t.sites[0]!.name} (straight line)`), { width: headW })
     }

@@ -8,6 +8,7 @@ import { localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { elementsInForce } from './eclipses'
 import { getSite, NotFoundError, zoneAt } from './planning'
+import { assertSiteNamesChosen } from './planningDetails'
 import { nowIso } from './clock'
 
 export type TripRow = Selectable<TripsTable>
@@ -87,6 +88,7 @@ export async function visibleTrip(db: Kysely<Database>, user: User | null, id: n
 
 export async function publishTrip(db: Kysely<Database>, user: User, id: number) {
   await getTripRow(db, id)
+  await assertSiteNamesChosen(db, id)
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('trips').set({ status: 'published' }).where('id', '=', id).execute()
     await audit(trx, { action: 'trip_publish', actorUserId: user.id, detail: { tripId: id } })

@@ -3,6 +3,7 @@ import { BookingStateError, CheckoutPendingError, RefundLimitError } from '../se
 import { UnknownEclipseError } from '../services/eclipses'
 import { NotFoundError, SiteInUseError } from '../services/planning'
 import { NotAssignedError, TripConflictError, TripRuleError } from '../services/trips'
+import { NoTerrainError, SiteNameAutomaticError } from '../services/planningDetails'
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
 import { VoyageUnreachable } from '../services/sea/voyagePlan'
@@ -16,6 +17,8 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof TripConflictError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { ...e.data, code: e.code } })
   if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
   if (e instanceof SiteInUseError) return createError({ statusCode: 409, statusMessage: 'Site in use', message: e.message, data: { code: 'site_in_use', trip: e.tripTitle } })
+  if (e instanceof SiteNameAutomaticError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { code: 'site_name_automatic', fields: { sites: e.message } } })
+  if (e instanceof NoTerrainError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { elevationM: e.message } } })
   if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })
   if (e instanceof SoldOutError) {
     return createError({ statusCode: 409, statusMessage: 'Sold out', message: e.message, data: { code: e.available === 0 ? 'sold_out' : 'not_enough_seats', available: e.available, waitlist: true } })

@@ -1,5 +1,6 @@
 import type { H3Event } from 'h3'
 import type { ZodError, ZodType } from 'zod'
+import { plainError } from '../../shared/schemas/messages'
 
 /** Turns a zod error into { field: message } (first message per field; "_" for the whole body). */
 export function fieldErrors(error: ZodError): Record<string, string> {
@@ -11,19 +12,24 @@ export function fieldErrors(error: ZodError): Record<string, string> {
   return out
 }
 
-function badRequest(error: ZodError, what: string) {
+/**
+ * A 400 whose message is the fields' own plain messages ("Choose at least one seat"), never the keys:
+ * forms show it as it is. `data.fields` keeps the keys so a form can put each message beside its field.
+ */
+function badRequest(error: ZodError) {
   const fields = fieldErrors(error)
   return createError({
     statusCode: 400,
     statusMessage: 'Invalid input',
-    message: `Invalid ${what}: ` + Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; '),
+    message: [...new Set(Object.values(fields))].map((m) => m.charAt(0).toUpperCase() + m.slice(1)).join('. '),
     data: { fields },
   })
 }
 
-export function parseOr400<T>(schema: ZodType<T>, value: unknown, what = 'input'): T {
-  const r = schema.safeParse(value)
-  if (!r.success) throw badRequest(r.error, what)
+export function parseOr400<T>(schema: ZodType<T>, value: unknown, _what = 'input'): T {
+  // A check without a message of its own gets one in words (shared/schemas/messages.ts).
+  const r = schema.safeParse(value, { error: plainError })
+  if (!r.success) throw badRequest(r.error)
   return r.data
 }
 

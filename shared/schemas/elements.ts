@@ -13,16 +13,16 @@ const coeffs = (name: string, n: number, check?: (v: number[]) => string | null)
  */
 export const PublishedElements = z.object({
   date: z.string({ error: 'date is required (YYYY-MM-DD)' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'date must be YYYY-MM-DD'),
-  t0Tdt: num('t0Tdt').min(0, 't0Tdt must be 0–24 hours').max(24, 't0Tdt must be 0–24 hours'),
-  deltaTSec: num('deltaTSec').min(-50, 'deltaTSec looks wrong (−50 to 10000 s)').max(10000, 'deltaTSec looks wrong (−50 to 10000 s)'),
+  t0Tdt: num('t0 (TDT hour)').min(0, 't0 (TDT hour) must be 0–24 hours').max(24, 't0 (TDT hour) must be 0–24 hours'),
+  deltaTSec: num('ΔT').min(-50, 'ΔT looks wrong (−50 to 10000 s)').max(10000, 'ΔT looks wrong (−50 to 10000 s)'),
   x: coeffs('x', 4, (v) => (Math.abs(v[0]!) > 2 ? 'x[0] must be within ±2 Earth radii' : Math.abs(v[1]!) > 1 ? 'x[1] (hourly rate) must be within ±1' : null)),
   y: coeffs('y', 4, (v) => (Math.abs(v[0]!) > 2 ? 'y[0] must be within ±2 Earth radii' : Math.abs(v[1]!) > 1 ? 'y[1] (hourly rate) must be within ±1' : null)),
   d: coeffs('d', 3, (v) => (Math.abs(v[0]!) > 24 ? 'd[0] must be a solar declination (±24°)' : null)),
   mu: coeffs('mu', 3, (v) => (v[0]! < 0 || v[0]! >= 360 ? 'mu[0] must be 0–360°' : Math.abs(v[1]! - 15) > 0.1 ? 'mu[1] must be about 15°/hour' : null)),
   l1: coeffs('l1', 3, (v) => (v[0]! < 0.4 || v[0]! > 0.7 ? 'l1[0] must be 0.4–0.7 Earth radii' : null)),
   l2: coeffs('l2', 3, (v) => (Math.abs(v[0]!) > 0.1 ? 'l2[0] must be within ±0.1 Earth radii' : null)),
-  tanF1: num('tanF1').min(0.0045, 'tanF1 must be about 0.0046–0.0048').max(0.0049, 'tanF1 must be about 0.0046–0.0048'),
-  tanF2: num('tanF2').min(0.0045, 'tanF2 must be about 0.0046–0.0048').max(0.0049, 'tanF2 must be about 0.0046–0.0048'),
+  tanF1: num('tan f1').min(0.0045, 'tan f1 must be about 0.0046–0.0048').max(0.0049, 'tan f1 must be about 0.0046–0.0048'),
+  tanF2: num('tan f2').min(0.0045, 'tan f2 must be about 0.0046–0.0048').max(0.0049, 'tan f2 must be about 0.0046–0.0048'),
   source: z.string({ error: 'source is required' }).trim().min(1, 'source is required').max(500),
 })
 export type PublishedElementsInput = z.infer<typeof PublishedElements>
@@ -35,10 +35,10 @@ const optionalNum = (min: number, max: number, name: string) =>
   z.coerce.number({ error: `${name} must be a number` }).min(min, `${name} must be ${min} to ${max}`).max(max, `${name} must be ${min} to ${max}`).optional()
 
 export const LocalQuery = z.object({
-  lat: z.coerce.number({ error: 'lat must be a number' }).min(-90, 'lat must be −90 to 90').max(90, 'lat must be −90 to 90'),
-  lon: z.coerce.number({ error: 'lon must be a number' }).min(-180, 'lon must be −180 to 180').max(180, 'lon must be −180 to 180'),
-  elev: optionalNum(-500, 9000, 'elev'),
-  deltaT: optionalNum(-50, 10000, 'deltaT'),
+  lat: z.coerce.number({ error: 'Latitude must be a number' }).min(-90, 'Latitude must be −90 to 90°').max(90, 'Latitude must be −90 to 90°'),
+  lon: z.coerce.number({ error: 'Longitude must be a number' }).min(-180, 'Longitude must be −180 to 180°').max(180, 'Longitude must be −180 to 180°'),
+  elev: optionalNum(-500, 9000, 'Height (m)'),
+  deltaT: optionalNum(-50, 10000, 'ΔT (s)'),
 })
 
 /**
@@ -49,7 +49,7 @@ export const PATH_STEPS_SEC = ['30', '60', '120', '300', '600', '900'] as const
 
 export const PathQuery = z.object({
   step: z.enum(PATH_STEPS_SEC, { error: `step must be one of ${PATH_STEPS_SEC.join(', ')} (seconds)` }).transform(Number).optional(),
-  deltaT: optionalNum(-50, 10000, 'deltaT'),
+  deltaT: optionalNum(-50, 10000, 'ΔT (s)'),
   wrap: z.enum(['split', 'unwrap']).optional(),
 })
 
@@ -61,5 +61,5 @@ export const CatalogueQuery = z.object({
 })
 
 export const EclipseSettingsPatch = z.object({
-  deltaTSec: z.number({ error: 'deltaTSec must be a number or null' }).min(-50).max(10000).nullable(),
+  deltaTSec: z.number({ error: 'ΔT must be a number of seconds, or empty' }).min(-50, 'ΔT must be −50 to 10000 s').max(10000, 'ΔT must be −50 to 10000 s').nullable(),
 })

@@ -3,41 +3,43 @@ import { PLAIN_TEXT, plainTextMessage } from './text'
 
 export const ROAD_ACCESS_VALUES = ['paved', 'gravel', 'track', 'none', 'unknown'] as const
 
-const lat = z.number({ error: 'lat must be a number' }).min(-90, 'lat must be −90 to 90').max(90, 'lat must be −90 to 90')
-const lon = z.number({ error: 'lon must be a number' }).min(-180, 'lon must be −180 to 180').max(180, 'lon must be −180 to 180')
-const elevationM = z.number({ error: 'elevationM must be a number' }).min(-500, 'elevationM must be −500 to 9000 m').max(9000, 'elevationM must be −500 to 9000 m')
-const name = z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters').regex(PLAIN_TEXT, plainTextMessage('name'))
+const lat = z.number({ error: 'Latitude must be a number' }).min(-90, 'Latitude must be −90 to 90°').max(90, 'Latitude must be −90 to 90°')
+const lon = z.number({ error: 'Longitude must be a number' }).min(-180, 'Longitude must be −180 to 180°').max(180, 'Longitude must be −180 to 180°')
+const elevationM = z.number({ error: 'The height must be a number of metres' }).min(-500, 'The height must be −500 to 9000 m').max(9000, 'The height must be −500 to 9000 m')
+const name = z.string({ error: 'Give the site a name' }).trim().min(1, 'Give the site a name').max(120, 'The name is too long (at most 120 characters)').regex(PLAIN_TEXT, plainTextMessage('name'))
 
 export const SiteCreate = z.object({
   name,
   lat,
   lon,
   elevationM: elevationM.optional(),
-  notes: z.string().max(2000).optional(),
-  roadAccess: z.enum(ROAD_ACCESS_VALUES).optional(),
-  capacity: z.number().int('capacity must be a whole number').min(0).max(100000).nullable().optional(),
-  crossesBorder: z.boolean().optional(),
+  notes: z.string({ error: 'Notes must be text' }).max(2000, 'Notes are too long (at most 2,000 characters)').optional(),
+  roadAccess: z.enum(ROAD_ACCESS_VALUES, { error: `Road access must be one of: ${ROAD_ACCESS_VALUES.join(', ')}` }).optional(),
+  capacity: z.number({ error: 'Capacity must be a number of people' }).int('Capacity must be a whole number of people').min(0, 'Capacity cannot be negative').max(100000, 'Capacity must be at most 100,000 people').nullable().optional(),
+  crossesBorder: z.boolean({ error: 'Say whether the trip crosses a border' }).optional(),
 })
 export type SiteCreateInput = z.infer<typeof SiteCreate>
 
 export const SitePatch = SiteCreate.partial().extend({
-  pinned: z.boolean().optional(),
+  /** A height, or null to mark it "not set" again. */
+  elevationM: elevationM.nullable().optional(),
+  pinned: z.boolean({ error: 'Say whether the site is pinned' }).optional(),
   /** Manual cloud cover for this site, percent, or null to clear it; needs a source note. */
-  cloudOverridePct: z.number({ error: 'cloudOverridePct must be a number or null' }).min(0, 'cloudOverridePct must be 0–100').max(100, 'cloudOverridePct must be 0–100').nullable().optional(),
-  cloudOverrideNote: z.string().trim().max(300).nullable().optional(),
+  cloudOverridePct: z.number({ error: 'The cloud override must be a percentage, or empty' }).min(0, 'The cloud override must be 0–100 %').max(100, 'The cloud override must be 0–100 %').nullable().optional(),
+  cloudOverrideNote: z.string({ error: 'The override source must be text' }).trim().max(300, 'The override source is too long (at most 300 characters)').nullable().optional(),
 }).refine((v) => v.cloudOverridePct === undefined || v.cloudOverridePct === null || !!v.cloudOverrideNote, {
   message: 'Say where the override comes from', path: ['cloudOverrideNote'],
 })
 export type SitePatchInput = z.infer<typeof SitePatch>
 
 export const WorkspaceCreate = z.object({
-  eclipseId: z.string({ error: 'eclipseId is required' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'eclipseId must be a date, YYYY-MM-DD'),
-  name: z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120).regex(PLAIN_TEXT, plainTextMessage('name')),
+  eclipseId: z.string({ error: 'Choose an eclipse' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'The eclipse must be a date, YYYY-MM-DD'),
+  name: z.string({ error: 'Give the workspace a name' }).trim().min(1, 'Give the workspace a name').max(120, 'The name is too long (at most 120 characters)').regex(PLAIN_TEXT, plainTextMessage('name')),
 })
 
 export const WorkspacePatch = z.object({
-  name: z.string().trim().min(1).max(120).regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
-  climatologyId: z.number().int().positive().nullable().optional(),
+  name: z.string({ error: 'The name must be text' }).trim().min(1, 'Give the workspace a name').max(120, 'The name is too long (at most 120 characters)').regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
+  climatologyId: z.number({ error: 'Choose a climatology, or none' }).int('Choose a climatology, or none').positive('Choose a climatology, or none').nullable().optional(),
 })
 
 /**
@@ -51,9 +53,9 @@ const decimal = (field: string, min: number, max: number) => z.string().trim()
 
 export const SiteCsvRow = z.object({
   name,
-  lat: decimal('lat', -90, 90),
-  lon: decimal('lon', -180, 180),
-  elevation: z.union([z.literal('').transform(() => undefined), decimal('elevation', -500, 9000)]).optional(),
+  lat: decimal('Latitude', -90, 90),
+  lon: decimal('Longitude', -180, 180),
+  elevation: z.union([z.literal('').transform(() => undefined), decimal('Elevation', -500, 9000)]).optional(),
   notes: z.string().max(2000).optional(),
 })
 
@@ -149,7 +151,14 @@ export interface SiteOut {
   name: string
   lat: number
   lon: number
-  elevationM: number
+  /** The site's height, m, or null when nobody set one (shown as "not set", never "0 m"). */
+  elevationM: number | null
+  /** Where the height came from: typed or imported ('given'), the workspace's terrain model ('terrain'), or null (not set). */
+  elevationSource: 'given' | 'terrain' | null
+  /** The height the contacts are computed for, m: the site's own, or sea level (0 m) while it is not set. */
+  assumedElevationM: number
+  /** The site still carries a name the planning page made up: rename it before publishing a trip that uses it. */
+  nameAutomatic: boolean
   notes: string
   roadAccess: string
   capacity: number | null

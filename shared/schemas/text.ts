@@ -6,4 +6,4 @@
  */
 export const PLAIN_TEXT = /^[^\p{Cc}\p{Zl}\p{Zp}\u202A-\u202E\u2066-\u2069]*$/u
 
-export const plainTextMessage = (field: string) => `${field} may not contain control characters (tabs, line breaks and the like)`
+export const plainTextMessage = (field: string) => `${field.charAt(0).toUpperCase()}${field.slice(1)} may not contain control characters (tabs, line breaks and the like)`

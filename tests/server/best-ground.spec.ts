@@ -113,7 +113,7 @@ describe('the point read-out and the surface agree', () => {
 })
 
 describe('best spots', () => {
-  it('finds ground within 150 km of Luxor at least as good as every candidate site there, on land, 5 km apart', async () => {
+  it('finds ground within 150 km of Luxor at least as good as every candidate site there, on land, 25 km apart (the default)', async () => {
     const org = await signIn(ORGANISER)
     const started = Date.now()
     const r = await api(`/api/workspaces/1/best-spots?lat=${LUXOR.lat}&lon=${LUXOR.lon}&radiusKm=150&limit=8&minSunAltitudeDeg=10`, { cookie: org })
@@ -126,8 +126,9 @@ describe('best spots', () => {
       expect(s.expectedSec).toBe(s.durationSec * s.pClear)
       expect(s.distanceKm).toBeLessThanOrEqual(150)
       expect(s.sunAltitudeDeg).toBeGreaterThanOrEqual(10)
-      if (i > 0) expect(s.expectedSec).toBeLessThanOrEqual(spots[i - 1]!.expectedSec)
-      for (const o of spots.slice(0, i)) expect(haversineKm(s.lat, s.lon, o.lat, o.lon)).toBeGreaterThanOrEqual(5)
+      // Best first, except that a spot within 3 s of the best one left may come first when nearer.
+      expect(s.expectedSec).toBeGreaterThanOrEqual(Math.max(...spots.slice(i).map((o) => o.expectedSec)) - 3)
+      for (const o of spots.slice(0, i)) expect(haversineKm(s.lat, s.lon, o.lat, o.lon)).toBeGreaterThanOrEqual(25)
     }
     // Durations agree with the local-circumstances route, at the coordinates and height returned.
     for (const s of spots) {
@@ -138,7 +139,8 @@ describe('best spots', () => {
     const sites = (await api('/api/workspaces/1/sites', { cookie: org })).body.data as Array<{ name: string; lat: number; lon: number; metrics: { expectedSec: number | null } }>
     const near = sites.filter((s) => haversineKm(LUXOR.lat, LUXOR.lon, s.lat, s.lon) <= 150 && s.metrics.expectedSec !== null)
     expect(near.length).toBeGreaterThanOrEqual(2)
-    for (const s of near) expect(spots[0]!.expectedSec, s.name).toBeGreaterThanOrEqual(s.metrics.expectedSec! - 0.05)
+    const bestSec = Math.max(...spots.map((o) => o.expectedSec))
+    for (const s of near) expect(bestSec, s.name).toBeGreaterThanOrEqual(s.metrics.expectedSec! - 0.05)
   })
 
   it('keeps to land: a search from the middle of the Red Sea returns only spots on the Egyptian shore', async () => {

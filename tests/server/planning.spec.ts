@@ -80,7 +80,7 @@ describe('planning workspaces and sites', () => {
     const before = (await api('/api/workspaces/1/sites', { cookie: org })).body.data.length
     const bad = await upload('/api/workspaces/1/sites/import', 'name,lat,lon,elevation,notes\nKom Ombo,24.452,32.928,100,ok\nEsna,25.29x,32.55,,\n', org)
     expect(bad.status).toBe(400)
-    expect(bad.body.errors).toEqual([{ row: 3, field: 'lat', message: 'lat must be a decimal number' }])
+    expect(bad.body.errors).toEqual([{ row: 3, field: 'lat', message: 'Latitude must be a decimal number' }])
     expect((await api('/api/workspaces/1/sites', { cookie: org })).body.data.length).toBe(before)
     const missing = await upload('/api/workspaces/1/sites/import', 'title,lat\nx,1\n', org)
     expect(missing.status).toBe(400)

@@ -210,6 +210,7 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Planning details ──
+  { method: 'POST', file: 'sites/[id]/height-from-terrain.post', path: () => `/api/sites/${fx.luxorSite}/height-from-terrain`, body: json({}), want: ORGANISER_ONLY(400), note: 'the demo has no terrain model: 400 naming elevationM' },
   // (end of block)
 
   // ── Participants and the manifest ──

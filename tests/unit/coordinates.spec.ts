@@ -33,9 +33,9 @@ describe('site CSV rows', () => {
     ])
     expect(rows).toHaveLength(1)
     expect(errors).toEqual(expect.arrayContaining([
-      { row: 3, field: 'lat', message: 'lat must be a decimal number' },
-      { row: 4, field: 'name', message: 'name is required' },
-      { row: 4, field: 'lon', message: 'lon must be -180 to 180' },
+      { row: 3, field: 'lat', message: 'Latitude must be a decimal number' },
+      { row: 4, field: 'name', message: 'Give the site a name' },
+      { row: 4, field: 'lon', message: 'Longitude must be -180 to 180' },
     ]))
   })
   it('accepts optional elevation and notes', () => {

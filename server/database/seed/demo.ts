@@ -51,7 +51,7 @@ async function seedWorkspace(trx: Kysely<Database>, organiserId: number, w: { ec
   for (const s of sites) {
     if (existing.has(s.name)) continue
     await trx.insertInto('sites').values({
-      workspace_id: ws.id, name: s.name, lat: s.lat, lon: s.lon, elevation_m: s.elevationM, notes: s.notes,
+      workspace_id: ws.id, name: s.name, lat: s.lat, lon: s.lon, elevation_m: s.elevationM, elevation_source: s.elevationM ? 'given' : null, notes: s.notes,
       road_access: s.road, capacity: s.capacity, crosses_border: s.border ? 1 : 0, pinned: s.pinned ? 1 : 0,
     }).execute()
   }

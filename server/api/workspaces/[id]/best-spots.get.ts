@@ -3,7 +3,7 @@ import { BestSpotsQuery } from '#shared/schemas/bestGround'
 import { bestSpots } from '../../../services/bestGround'
 import { assertWorkspaceAccess } from '../../../services/planning'
 
-/** The best ground near a point: spots ranked by expected seen seconds, on land, at least 5 km apart. */
+/** The best ground near a point: spots ranked by expected seen seconds, on land, at least minSeparationKm apart (default 25 km). */
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
   const { id } = paramsAs(event, IdParams)
