@@ -138,3 +138,13 @@ export function invitationMail(d: { name: string; inviter: string; role: string;
       + p(`The link works once, for ${d.days} days. If you were not expecting this, ignore this message.`),
     `Hello ${d.name},\n\n${d.inviter} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:\n${d.url}\n\nThe link works once, for ${d.days} days. If you were not expecting this, ignore this message.`)
 }
+
+/** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
+export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind }): Mail {
+  const forLine = d.forName ? ` (for ${d.forName})` : ''
+  return frame(`Eclipse day: we go to ${d.siteName}`,
+    p(`Hello ${esc(d.name)}${esc(forLine)},`) + p(`For <strong>${esc(d.tripTitle)}</strong> we observe from <strong>${esc(d.siteName)}</strong>.`)
+      + p(`Meet at <strong>${esc(d.meetingPoint)}</strong>; we leave at <strong>${esc(d.departLocal)}</strong> local time (${esc(d.departUtc)} UTC).`)
+      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, 'I have seen this') + p('Please press the button on that page so your guide knows you have it.') + safetyHtml(d.eclipseKind),
+    `Hello ${d.name}${forLine},\n\nFor ${d.tripTitle} we observe from ${d.siteName}.\nMeet at ${d.meetingPoint}; we leave at ${d.departLocal} local time (${d.departUtc} UTC).\n${d.message ? `\n${d.message}\n` : ''}\nPlease confirm you have seen this (open the link and press the button):\n${d.ackUrl}\n\n${safetyText(d.eclipseKind)}`)
+}
