@@ -6,7 +6,7 @@ test('the organiser decides, sees who has it, and a participant acknowledges thr
   await signInAs(page, 'organiser@umbrafield.test')
   await gotoHydrated(page, '/trips/1/decision')
   const form = page.getByRole('form', { name: 'Make the day\'s decision' })
-  await form.getByLabel('Site').selectOption({ label: 'Qena plateau (backup)' })
+  await form.getByLabel('Site', { exact: true }).selectOption({ label: 'Qena plateau (backup)' })
   await form.getByLabel(/Leave at/).fill('2027-08-02T05:00')
   await form.getByLabel(/Meeting point/).fill('Qena bus station (demo)')
   await form.getByRole('button', { name: 'Decide and tell everyone' }).click()
