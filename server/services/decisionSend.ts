@@ -148,7 +148,7 @@ export async function processNotices(db: Kysely<Database>, senders: { sms: SmsSe
   for (let n = 0; n < limit; n++) {
     const m = await claimNext()
     if (!m) break
-    let ref: string | null = null
+    let ref: string
     try {
       if (!m.sealed_secret) throw new GiveUpError('The acknowledgement link in this message has been cleared')
       const body = m.body.split(SECRET_TOKEN).join(unseal(m.sealed_secret, messageSecretContext(m.message_id)))

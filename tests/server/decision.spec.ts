@@ -1,3 +1,4 @@
+import { createECDH, randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { url } from '@nuxt/test-utils/e2e'
 import { openDatabase } from '../../server/database/connection'
@@ -48,6 +49,15 @@ beforeAll(async () => {
   }
 })
 
+interface Push { name: string; encoding: string | null; vapid: string | null; bytes: number }
+const pushes = async (): Promise<Push[]> => (await fetch(`${SMS_FAKE}/_fake/pushes`)).json() as Promise<Push[]>
+/** A device's subscription, as a browser makes it (P-256 key and 16-byte secret, RFC 8291), pointing at the fake's receiver. */
+const PUSH_RUN = randomBytes(4).toString('hex')
+const subscription = (name: string) => ({
+  endpoint: `${SMS_FAKE}/_fake/push/${name}-${PUSH_RUN}`,
+  keys: { p256dh: createECDH('prime256v1').generateKeys().toString('base64url'), auth: randomBytes(16).toString('base64url') },
+})
+
 const board = (cookie = fx.org) => api(`/api/trips/${fx.tripId}/decision`, { cookie })
 const decide = (body: Record<string, unknown>, cookie = fx.org) => api(`/api/trips/${fx.tripId}/decision`, { method: 'POST', body, cookie })
 
@@ -75,6 +85,9 @@ describe(`the day's decision (${TEST_DB})`, () => {
   })
 
   it('reaches every confirmed participant and guide by e-mail and SMS; is audited; names the chosen site first', async () => {
+    // Devices that opted in: the guide's, and the booking holder's (pushes go for seat 1 only).
+    expect((await api('/api/push/subscriptions', { method: 'POST', body: subscription('guide'), cookie: fx.guide })).status).toBe(201)
+    expect((await api('/api/push/subscriptions', { method: 'POST', body: subscription('holder'), cookie: fx.booked })).status).toBe(201)
     const chosen = fx.backups[0]!
     const r = await decide({ siteId: chosen, departAt: fx.departAt, meetingPoint: 'Qena bus station (test)', message: 'Bring water (test).' })
     expect(r.status, JSON.stringify(r.body)).toBe(201)
@@ -104,6 +117,17 @@ describe(`the day's decision (${TEST_DB})`, () => {
     expect(b.body.recipients.map((p: any) => [p.kind, p.seat, p.delivered.sms, p.acknowledgedAt])).toEqual([
       ['participant', 1, 'sent', null], ['participant', 2, 'sent', null], ['guide', null, null, null],
     ])
+    // Web Push: encrypted (RFC 8188 aes128gcm) and signed (RFC 8292 VAPID), one to each opted-in device.
+    const got = await until(pushes, (l) => l.filter((x) => x.name.endsWith(PUSH_RUN)).length >= 2, 20_000)
+    const mine = got.filter((x) => x.name.endsWith(PUSH_RUN))
+    expect(mine.map((x) => x.name.split('-')[0]).sort()).toEqual(['guide', 'holder'])
+    for (const x of mine) {
+      expect(x.encoding).toBe('aes128gcm')
+      expect(x.vapid).not.toBeNull()
+      expect(x.bytes).toBeGreaterThan(100)
+    }
+    const withPush = await until(() => board(), (x) => x.body.recipients.filter((p: any) => p.delivered.push).every((p: any) => p.delivered.push === 'sent'), 20_000)
+    expect(withPush.body.recipients.map((p: any) => p.delivered.push)).toEqual(['sent', null, 'sent'])
     const audits = await db.selectFrom('audit_log').select(['action', 'detail']).where('action', 'like', 'decision_%').execute()
     expect(audits.map((a) => a.action)).toEqual(['decision_make'])
     expect(JSON.parse(audits[0]!.detail!)).toMatchObject({ tripId: fx.tripId, siteId: chosen, previousSiteId: null })
