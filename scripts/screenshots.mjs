@@ -1,10 +1,11 @@
-// Screenshots of pages for a look at what we build: BASE=http://localhost:3000 PAGES=/,/login [LOGIN=email] [FULL=1] node scripts/screenshots.mjs
+// Screenshots of pages for a look at what we build: BASE=http://localhost:3000 PAGES=/,/login [LOGIN=email] [FULL=1] [VIEWPORT=390x844] node scripts/screenshots.mjs
 // Writes /tmp/shot<page>.png and lists any request that left the machine.
 import { chromium } from '@playwright/test'
 const base = process.env.BASE || 'http://localhost:3111'
 const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update'] })
 const pages = (process.env.PAGES || '/,/login,/eclipses,/eclipses/2027-08-02').split(',')
-const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+const [vw, vh] = (process.env.VIEWPORT || '1280x900').split('x').map(Number)
+const ctx = await browser.newContext({ viewport: { width: vw, height: vh } })
 const page = await ctx.newPage()
 const outside = []
 page.on('request', (r) => { const u = new URL(r.url()); if (!['localhost', '127.0.0.1'].includes(u.hostname) && u.protocol !== 'data:' && u.protocol !== 'blob:') outside.push(r.url()) })
