@@ -15,6 +15,7 @@ process.env.STRIPE_FAKE_PORT ??= String(freePortSync())
 process.env.MAIL_FAKE_SMTP_PORT ??= String(freePortSync())
 process.env.MAIL_FAKE_WEB_PORT ??= String(freePortSync())
 process.env.FORECAST_FAKE_PORT ??= String(freePortSync())
+process.env.SMS_FAKE_PORT ??= String(freePortSync())
 const fakes = fakeServices({ appPort: PORT })
 
 export default defineConfig({

@@ -41,3 +41,20 @@ self.addEventListener('message', (e) => {
     e.source?.postMessage({ type: 'cached', count: e.data.urls.length })
   }))
 })
+
+// The day's decision, pushed (Web Push, opted in on the countdown page): shown as a notification;
+// tapping it opens the acknowledgement page the message links to.
+self.addEventListener('push', (e) => {
+  let data = {}
+  try { data = e.data ? e.data.json() : {} } catch { data = { title: 'Umbrafield', body: e.data ? e.data.text() : '' } }
+  e.waitUntil(self.registration.showNotification(data.title || 'Umbrafield', {
+    body: data.body || '', icon: '/logo.svg', tag: 'umbrafield-decision', renotify: true, requireInteraction: true, data: { url: data.url || '/' },
+  }))
+})
+
+self.addEventListener('notificationclick', (e) => {
+  e.notification.close()
+  const target = e.notification.data && e.notification.data.url
+  if (!target || new URL(target, self.location.origin).origin !== self.location.origin) return
+  e.waitUntil(self.clients.openWindow(target))
+})

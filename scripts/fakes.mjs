@@ -10,6 +10,9 @@ export function fakeServices(o = {}) {
   const smtpPort = process.env.MAIL_FAKE_SMTP_PORT || '1025'
   const webPort = process.env.MAIL_FAKE_WEB_PORT || '1080'
   const forecastPort = process.env.FORECAST_FAKE_PORT || '12121'
+  const smsPort = process.env.SMS_FAKE_PORT || '12131'
+  const smsSid = 'AC00000000000000000000000000000000'
+  const smsToken = 'umbrafield_local_fake_token'
   return [
     {
       name: 'mail-catcher',
@@ -50,6 +53,20 @@ export function fakeServices(o = {}) {
       env: { FORECAST_FAKE_PORT: forecastPort },
       health: `http://127.0.0.1:${forecastPort}/_fake/health`,
       appEnv: { NUXT_FORECAST_API_URL: `http://127.0.0.1:${forecastPort}/v1/forecast` },
+    },
+    {
+      name: 'sms-fake',
+      label: 'SMS fake (sent texts at /_fake/messages)',
+      url: `http://127.0.0.1:${smsPort}/_fake/messages`,
+      args: ['fakes/sms/server.mjs'],
+      env: { SMS_FAKE_PORT: smsPort, SMS_FAKE_ACCOUNT_SID: smsSid, SMS_FAKE_AUTH_TOKEN: smsToken },
+      health: `http://127.0.0.1:${smsPort}/_fake/health`,
+      appEnv: {
+        NUXT_SMS_ACCOUNT_SID: smsSid,
+        NUXT_SMS_AUTH_TOKEN: smsToken,
+        NUXT_SMS_FROM: '+15005550006',
+        NUXT_SMS_API_BASE: `http://127.0.0.1:${smsPort}`,
+      },
     },
   ]
 }

@@ -1,4 +1,4 @@
-// Screenshots of pages for a look at what we build: BASE=http://localhost:3000 PAGES=/,/login [LOGIN=email] [FULL=1] node scripts/screenshots.mjs
+// Screenshots of pages for a look at what we build: BASE=http://localhost:3000 PAGES=/,/login [LOGIN=email] [FULL=1] [VIEWPORT=390x844] node scripts/screenshots.mjs
 // Writes /tmp/shot<page>.png and lists any request that left the machine.
 import { chromium } from '@playwright/test'
 const base = process.env.BASE || 'http://localhost:3111'

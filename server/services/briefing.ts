@@ -63,7 +63,9 @@ export async function briefing(db: Kysely<Database>, tripId: number, siteId?: nu
   return {
     trip: { id: trip.id, title: trip.title, eclipseId: trip.eclipse_id },
     site: { id: site.siteId, name: site.name, role: site.role, lat: site.lat, lon: site.lon, elevationM: site.elevationM, zone: site.zone, utcOffset: site.utcOffset },
-    sites: tt.sites.map((s) => ({ id: s.siteId, name: s.name, role: s.role })),
+    sites: tt.sites.map((s) => ({ id: s.siteId, name: s.name, role: s.role, chosen: s.chosen })),
+    /** The day's decision in force (its site is listed first and is the default), or null. */
+    decision: tt.decision,
     kind: site.kind, words: site.words, durationSec: site.durationSec, magnitude: site.magnitude,
     steps: seq.steps, notice: seq.notice,
     sky: {

@@ -47,6 +47,18 @@ export function toIcs(events: EventAttributes[]): string {
   return value
 }
 
-export function siteTimetableIcs(trip: { id: number; title: string; eclipseId: string }, site: SiteLike): string {
-  return toIcs(contactEvents(trip, site, true))
+/** The day's decision as a calendar event: leaving the meeting point for the chosen site. */
+export function departureEvent(trip: { id: number; title: string }, d: { id: number; siteName: string; departAt: string; meetingPoint: string; message: string | null }): EventAttributes {
+  return {
+    uid: `umbrafield-trip${trip.id}-decision@umbrafield`, title: `Leave for ${d.siteName} (the day's decision)`,
+    start: Date.parse(d.departAt), startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 15 }, location: d.meetingPoint,
+    // A changed decision keeps the UID and raises the sequence, so calendars update the event in place.
+    sequence: d.id,
+    description: `${trip.title}: we observe from ${d.siteName}. Meet at ${d.meetingPoint}.${d.message ? `\n${d.message}` : ''}`,
+  }
+}
+
+/** A site's contacts and cues; for the site chosen for the day, the departure first. */
+export function siteTimetableIcs(trip: { id: number; title: string; eclipseId: string }, site: SiteLike, decision?: Parameters<typeof departureEvent>[1] | null): string {
+  return toIcs([...(decision ? [departureEvent(trip, decision)] : []), ...contactEvents(trip, site, true)])
 }

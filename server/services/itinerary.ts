@@ -4,7 +4,7 @@ import { localTime } from '../../shared/time/local'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { dueOf } from './dues'
-import { contactEvents, toIcs } from './calendar'
+import { contactEvents, departureEvent, toIcs } from './calendar'
 import { checklistOf } from './briefing'
 import * as T from './mailTemplates'
 import { enqueueMail, type OutgoingMail } from './outbox'
@@ -26,7 +26,7 @@ export async function itineraryMails(db: Kysely<Database>, tripId: number, appUr
     startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 30 }, location: trip.meeting_name, geo: { lat: trip.meeting_lat, lon: trip.meeting_lon },
     description: `${trip.title}: meeting point, ${meet.local} local time (${meetZone}).`,
   }
-  const ics = toIcs([meetingEvent, ...contactEvents({ id: trip.id, title: trip.title, eclipseId: trip.eclipse_id }, site, false)])
+  const ics = toIcs([meetingEvent, ...(t.decision ? [departureEvent(trip, t.decision)] : []), ...contactEvents({ id: trip.id, title: trip.title, eclipseId: trip.eclipse_id }, site, false)])
   const rows = await db.selectFrom('bookings').innerJoin('users', 'users.id', 'bookings.user_id').selectAll('bookings').select(['users.name as uname', 'users.email as uemail'])
     .where('bookings.trip_id', '=', tripId).where('bookings.status', '=', 'confirmed').orderBy('bookings.id').execute()
   return rows.map((b) => {

@@ -147,4 +147,13 @@ export function tripChanged(d: { name: string; tripTitle: string; changes: Array
       + `<table role="presentation" style="border-collapse:collapse;font-size:14px"><tr><th align="left">What</th><th align="left">Was</th><th align="left">Now</th></tr>${rows}</table>`
       + p('Your booking, its price and its terms stay as agreed.') + button(d.tripUrl, 'See the trip'),
     `Hello ${d.name},\n\nThe organiser has changed ${d.tripTitle}:\n\n${d.changes.map((c) => `${c.label}\n  was: ${c.from}\n  now: ${c.to}`).join('\n\n')}\n\nYour booking, its price and its terms stay as agreed.\n${d.tripUrl}`)
+
+/** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
+export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind }): Mail {
+  const forLine = d.forName ? ` (for ${d.forName})` : ''
+  return frame(`Eclipse day: we go to ${d.siteName}`,
+    p(`Hello ${esc(d.name)}${esc(forLine)},`) + p(`For <strong>${esc(d.tripTitle)}</strong> we observe from <strong>${esc(d.siteName)}</strong>.`)
+      + p(`Meet at <strong>${esc(d.meetingPoint)}</strong>; we leave at <strong>${esc(d.departLocal)}</strong> local time (${esc(d.departUtc)} UTC).`)
+      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, 'I have seen this') + p('Please press the button on that page so your guide knows you have it.') + safetyHtml(d.eclipseKind),
+    `Hello ${d.name}${forLine},\n\nFor ${d.tripTitle} we observe from ${d.siteName}.\nMeet at ${d.meetingPoint}; we leave at ${d.departLocal} local time (${d.departUtc} UTC).\n${d.message ? `\n${d.message}\n` : ''}\nPlease confirm you have seen this (open the link and press the button):\n${d.ackUrl}\n\n${safetyText(d.eclipseKind)}`)
 }

@@ -19,6 +19,7 @@ import { getWorkspace, NotFoundError, zoneAt } from './planning'
 import { siteHorizon, terrainFor, terrainWarnings } from './terrain'
 import { assertStaffReach, getTripRow, type TripRow } from './trips'
 import { nowIso, nowMs } from './clock'
+import { decisionInForce } from './decisionState'
 
 export const compass = compassShort
 
@@ -122,8 +123,14 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
   })
   // The fallback list is the chase plan, not the order the sites were typed in.
   const backups = chaseOrder(unordered.slice(1).map((x) => ({ ...x, ...x.chase })))
-  const sites = [unordered[0]!, ...backups.map((b) => unordered.find((x) => x.siteId === b.siteId)!)]
-  sites.forEach((x, i) => { x.chase.rank = i })
+  const planned = [unordered[0]!, ...backups.map((b) => unordered.find((x) => x.siteId === b.siteId)!)]
+  planned.forEach((x, i) => { x.chase.rank = i })
+  // Once the day's decision is made, its site comes first everywhere (countdown, briefing, calendar);
+  // the chase rank keeps the plan's order.
+  const decided = await decisionInForce(db, tripId)
+  const chosen = decided ? planned.find((x) => x.siteId === decided.siteId) : undefined
+  const sites = (chosen ? [chosen, ...planned.filter((x) => x !== chosen)] : planned).map((x) => ({ ...x, chosen: x === chosen }))
+  const decision = decided && chosen ? { ...decided, siteName: chosen.name, departLocal: localTime(Date.parse(decided.departAt), chosen.zone).local } : null
   const primaryKind = sites[0]?.kind ?? 'partial'
   return {
     trip: {
@@ -132,6 +139,8 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       /** Offsets saved on the trip (seconds from each cue's contact); cues not listed use the defaults. */
       cueOffsets: offsets,
     },
+    /** The day's decision in force (its site is sites[0]), or null before one is made. */
+    decision,
     sites, safety: safetyLines(primaryKind), words: phaseWords(primaryKind), elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec,
     time: sites[0]?.time, generatedAt: nowIso(),
   }

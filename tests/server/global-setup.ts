@@ -9,7 +9,7 @@ import { freePort } from '../../scripts/free-port.mjs'
 export interface TestPorts {
   /** The app under test (server tests run one file at a time on it), so the fakes can call back. */
   app: number
-  fakes: { STRIPE_FAKE_PORT: string; MAIL_FAKE_SMTP_PORT: string; MAIL_FAKE_WEB_PORT: string; FORECAST_FAKE_PORT: string }
+  fakes: { STRIPE_FAKE_PORT: string; MAIL_FAKE_SMTP_PORT: string; MAIL_FAKE_WEB_PORT: string; FORECAST_FAKE_PORT: string; SMS_FAKE_PORT: string }
 }
 
 declare module 'vitest' {
@@ -24,7 +24,7 @@ export default async function setup(project: TestProject) {
   }
   const ports: TestPorts = {
     app: await freePort(),
-    fakes: { STRIPE_FAKE_PORT: String(await freePort()), MAIL_FAKE_SMTP_PORT: String(await freePort()), MAIL_FAKE_WEB_PORT: String(await freePort()), FORECAST_FAKE_PORT: String(await freePort()) },
+    fakes: { STRIPE_FAKE_PORT: String(await freePort()), MAIL_FAKE_SMTP_PORT: String(await freePort()), MAIL_FAKE_WEB_PORT: String(await freePort()), FORECAST_FAKE_PORT: String(await freePort()), SMS_FAKE_PORT: String(await freePort()) },
   }
   project.provide('testPorts', ports)
   Object.assign(process.env, ports.fakes)

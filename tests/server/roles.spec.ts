@@ -227,6 +227,13 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── The day's decision and acknowledgements ──
+  { method: 'GET', file: 'trips/[id]/decision.get', path: () => `/api/trips/${fx.luxorTrip}/decision`, want: STAFF(200), note: 'organisers and the trip\'s guides' },
+  { method: 'POST', file: 'trips/[id]/decision.post', path: () => `/api/trips/${fx.luxorTrip}/decision`, body: () => ({ siteId: fx.luxorSite, departAt: '2027-08-02T05:00:00+03:00' }), want: ORGANISER_ONLY(201) },
+  { method: 'POST', file: 'trips/[id]/decision/resend.post', path: () => `/api/trips/${fx.luxorTrip}/decision/resend`, body: json({}), want: ORGANISER_ONLY(200), note: 'after the decision row: sends again to whoever has not acknowledged' },
+  { method: 'GET', file: 'ack/[token].get', path: () => '/api/ack/roles-matrix-unknown-token-000000000', want: PUBLIC(404), note: 'no sign-in; an unknown link' },
+  { method: 'POST', file: 'ack/[token].post', path: () => '/api/ack/roles-matrix-unknown-token-000000000', body: json({}), want: PUBLIC(404), note: 'no sign-in; an unknown link' },
+  { method: 'GET', file: 'push/key.get', path: () => '/api/push/key', want: USER(200) },
+  { method: 'POST', file: 'push/subscriptions.post', path: () => '/api/push/subscriptions', body: json({}), want: USER(400), note: 'no subscription in the body' },
   // (end of block)
 
   // ── Speed and usability ──
