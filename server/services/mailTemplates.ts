@@ -147,6 +147,7 @@ export function tripChanged(d: { name: string; tripTitle: string; changes: Array
       + `<table role="presentation" style="border-collapse:collapse;font-size:14px"><tr><th align="left">What</th><th align="left">Was</th><th align="left">Now</th></tr>${rows}</table>`
       + p('Your booking, its price and its terms stay as agreed.') + button(d.tripUrl, 'See the trip'),
     `Hello ${d.name},\n\nThe organiser has changed ${d.tripTitle}:\n\n${d.changes.map((c) => `${c.label}\n  was: ${c.from}\n  now: ${c.to}`).join('\n\n')}\n\nYour booking, its price and its terms stay as agreed.\n${d.tripUrl}`)
+}
 
 /** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
 export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind }): Mail {
