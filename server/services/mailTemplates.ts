@@ -138,3 +138,13 @@ export function invitationMail(d: { name: string; inviter: string; role: string;
       + p(`The link works once, for ${d.days} days. If you were not expecting this, ignore this message.`),
     `Hello ${d.name},\n\n${d.inviter} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:\n${d.url}\n\nThe link works once, for ${d.days} days. If you were not expecting this, ignore this message.`)
 }
+
+/** Travellers whose participant details are incomplete (45 and 14 days before the trip, or an organiser's nudge). */
+export function participantsReminderMail(d: { name: string; tripTitle: string; startDate: string; daysBefore: number | null; missing: Array<{ seat: number; fields: string[] }>; bookingUrl: string }): Mail {
+  const when = d.daysBefore === null ? `before the trip starts on ${d.startDate}` : `— the trip starts in ${d.daysBefore} days, on ${d.startDate}`
+  const lines = d.missing.map((m) => `Seat ${m.seat}: ${m.fields.join(', ')}`)
+  return frame(`Traveller details needed: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`Hotels, border officials, airlines and insurers need each traveller's details ${esc(when)}. Still missing:`)
+    + `<ul style="margin:0 0 12px 18px;padding:0">${lines.map((l) => `<li>${esc(l)}</li>`).join('')}</ul>` + button(d.bookingUrl, 'Complete the details'),
+    `Hello ${d.name},\n\nHotels, border officials, airlines and insurers need each traveller's details ${when}. Still missing:\n${lines.map((l) => `- ${l}`).join('\n')}\n\n${d.bookingUrl}`)
+}

@@ -5,11 +5,13 @@ import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
+import { ParticipantRuleError } from '../services/people/participants'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof UnknownEclipseError) return createError({ statusCode: 400, statusMessage: 'Unknown eclipse', message: e.message, data: { fields: { id: e.message } } })
   if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
+  if (e instanceof ParticipantRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: e.fields } })
   if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
   if (e instanceof SiteInUseError) return createError({ statusCode: 409, statusMessage: 'Site in use', message: e.message, data: { code: 'site_in_use', trip: e.tripTitle } })
   if (e instanceof NotFoundError) return createError({ statusCode: 404, statusMessage: 'Not found', message: e.message })
