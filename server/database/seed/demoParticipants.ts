@@ -23,7 +23,7 @@ export async function seedDemoParticipants(db: Kysely<Database>): Promise<void> 
         date_of_birth_sealed: s(1, 'dateOfBirth', '1979-04-11'), passport_number_sealed: s(1, 'passportNumber', 'DEMO4471902'),
         mobile_phone_sealed: s(1, 'mobilePhone', '+61491570156'), dietary_sealed: s(1, 'dietary', 'Demo: vegetarian'),
         medical_sealed: s(1, 'medical', 'Demo: mild asthma, carries an inhaler'), mobility_sealed: null,
-        emergency_phone_sealed: s(1, 'emergencyPhone', '+61255550123'),
+        emergency_phone_sealed: s(1, 'emergencyPhone', '+61255500123'),
       },
       {
         seat: 2, full_name: 'Lina Okafor (demo)', nationality: 'GB', passport_expiry: null, room_type: 'double' as const, room_with: 'Samir Okafor (demo)',
