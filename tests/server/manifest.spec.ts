@@ -12,7 +12,6 @@ afterAll(() => db.destroy())
 
 const TRIP_START = '2027-07-31'
 const TRIP_END = '2027-08-03'
-const ECLIPSE_DAY = '2027-08-02'
 
 const fx = { org: '', guide: '', trav: '', trav2: '', tripA: 0, tripB: 0, booking: 0, bookingComplete: 0, bookingB: 0, guideId: 0 }
 
