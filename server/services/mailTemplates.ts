@@ -158,3 +158,13 @@ export function decisionMail(d: { name: string; tripTitle: string; siteName: str
       + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, 'I have seen this') + p('Please press the button on that page so your guide knows you have it.') + safetyHtml(d.eclipseKind),
     `Hello ${d.name}${forLine},\n\nFor ${d.tripTitle} we observe from ${d.siteName}.\nMeet at ${d.meetingPoint}; we leave at ${d.departLocal} local time (${d.departUtc} UTC).\n${d.message ? `\n${d.message}\n` : ''}\nPlease confirm you have seen this (open the link and press the button):\n${d.ackUrl}\n\n${safetyText(d.eclipseKind)}`)
 }
+
+/** Travellers whose participant details are incomplete (45 and 14 days before the trip, or an organiser's nudge). */
+export function participantsReminderMail(d: { name: string; tripTitle: string; startDate: string; daysBefore: number | null; missing: Array<{ seat: number; fields: string[] }>; bookingUrl: string }): Mail {
+  const when = d.daysBefore === null ? `before the trip starts on ${d.startDate}` : `— the trip starts in ${d.daysBefore} days, on ${d.startDate}`
+  const lines = d.missing.map((m) => `Seat ${m.seat}: ${m.fields.join(', ')}`)
+  return frame(`Traveller details needed: ${d.tripTitle}`,
+    p(`Hello ${esc(d.name)},`) + p(`Hotels, border officials, airlines and insurers need each traveller's details ${esc(when)}. Still missing:`)
+    + `<ul style="margin:0 0 12px 18px;padding:0">${lines.map((l) => `<li>${esc(l)}</li>`).join('')}</ul>` + button(d.bookingUrl, 'Complete the details'),
+    `Hello ${d.name},\n\nHotels, border officials, airlines and insurers need each traveller's details ${when}. Still missing:\n${lines.map((l) => `- ${l}`).join('\n')}\n\n${d.bookingUrl}`)
+}

@@ -17,7 +17,7 @@ const INK = '#1a1633', MUTED = '#62579b', GOLD = '#d8901b', RED = '#a8362d'
  * The contact timetable as a PDF: one page per site, A4 or US Letter, Work Sans embedded; each site's
  * page is followed by the participants' briefing for that site when `briefings` are given.
  */
-export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: TripBriefing[] = []): Promise<Buffer> {
+export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: TripBriefing[] = [], rooming?: RoomingEntry[]): Promise<Buffer> {
   const doc = new PDFDocument({ size: paper === 'letter' ? 'LETTER' : 'A4', margin: 42, autoFirstPage: false, info: { Title: `${t.trip.title} — contact timetable`, Author: 'Umbrafield' } })
   doc.registerFont('ws', fontPath(400))
   doc.registerFont('ws-semi', fontPath(600))
@@ -111,6 +111,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     const b = briefings.find((x) => x.site.id === s.siteId)
     if (b) briefingPage(doc, b)
   }
+  if (rooming) roomingPage(doc, t.trip.title, rooming)
   doc.end()
   return done
 }
@@ -177,4 +178,36 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
   doc.font('ws').fontSize(8.5).fillColor(INK)
   for (const line of b.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
   doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
+}
+
+/** One seat's room, for the organisers' rooming list (server/services/people/manifest.ts roomingList). */
+export interface RoomingEntry { bookingId: number; seat: number; name: string; roomType: string | null; with: string | null }
+
+/** The rooming list (organisers' pack only): who sleeps in which kind of room, and with whom, grouped by room type. */
+function roomingPage(doc: PDFKit.PDFDocument, title: string, rooming: RoomingEntry[]) {
+  doc.addPage()
+  const left = doc.page.margins.left
+  const width = doc.page.width - left - doc.page.margins.right
+  const bottom = doc.page.height - doc.page.margins.bottom
+  doc.font('ws-semi').fontSize(8).fillColor(MUTED).text('UMBRAFIELD · ROOMING LIST', left, 40)
+  doc.font('ws-bold').fontSize(16).fillColor(INK).text(title, left, 54, { width })
+  doc.font('ws').fontSize(9).fillColor(MUTED).text(`${rooming.length} travellers on confirmed bookings. Names as in the passports, where given.`, { width })
+  doc.moveDown(0.6)
+  const order = ['single', 'double', 'twin', 'shared', null]
+  const sorted = [...rooming].sort((a, b) => order.indexOf(a.roomType) - order.indexOf(b.roomType) || a.bookingId - b.bookingId || a.seat - b.seat)
+  let y = doc.y
+  const cols = [0, 60, 260, 340]
+  doc.font('ws-semi').fontSize(8).fillColor(MUTED)
+  ;['BOOKING', 'NAME', 'ROOM', 'SHARING WITH'].forEach((h, i) => doc.text(h, left + cols[i]!, y))
+  y += 13
+  for (const r of sorted) {
+    if (y + 16 > bottom) { doc.addPage(); y = doc.page.margins.top }
+    doc.moveTo(left, y - 3).lineTo(left + width, y - 3).lineWidth(0.4).strokeColor('#d2cee8').stroke()
+    doc.font('ws').fontSize(9.5).fillColor(INK)
+    doc.text(`#${r.bookingId} · ${r.seat}`, left + cols[0]!, y, { width: cols[1]! - 4, lineBreak: false })
+    doc.text(r.name, left + cols[1]!, y, { width: cols[2]! - cols[1]! - 6, lineBreak: false, ellipsis: true })
+    doc.font(r.roomType ? 'ws' : 'ws-semi').fillColor(r.roomType ? INK : RED).text(r.roomType ?? 'not given', left + cols[2]!, y, { lineBreak: false })
+    doc.font('ws').fillColor(INK).text(r.with ?? '', left + cols[3]!, y, { width: width - cols[3]!, lineBreak: false, ellipsis: true })
+    y += 16
+  }
 }

@@ -8,6 +8,7 @@ import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
 import { VoyageUnreachable } from '../services/sea/voyagePlan'
 import { ForecastUnavailableError, TooEarlyError } from '../services/forecasts'
+import { ParticipantRuleError } from '../services/people/participants'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -15,6 +16,7 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof TripRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { [e.field]: e.message } } })
   if (e instanceof NotAssignedError) return createError({ statusCode: 403, statusMessage: 'Not assigned', message: e.message, data: { code: 'not_assigned' } })
   if (e instanceof TripConflictError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { ...e.data, code: e.code } })
+  if (e instanceof ParticipantRuleError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: e.fields } })
   if (e instanceof CueRuleError) return createError({ statusCode: 400, statusMessage: 'Unsafe cue', message: e.message, data: { fields: e.fields } })
   if (e instanceof SiteInUseError) return createError({ statusCode: 409, statusMessage: 'Site in use', message: e.message, data: { code: 'site_in_use', trip: e.tripTitle } })
   if (e instanceof SiteNameAutomaticError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { code: 'site_name_automatic', fields: { sites: e.message } } })

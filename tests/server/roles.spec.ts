@@ -214,6 +214,14 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Participants and the manifest ──
+  { method: 'GET', file: 'bookings/[id]/participants/index.get', path: () => `/api/bookings/${fx.luxorBooking}/participants`, want: [401, 404, 200, 404, 404, 200], note: 'the booking\'s traveller and organisers' },
+  { method: 'PUT', file: 'bookings/[id]/participants/[seat].put', path: () => `/api/bookings/${fx.luxorBooking}/participants/2`, body: json({ fullName: 'Roles matrix (test)' }), want: [401, 404, 200, 404, 404, 200], note: 'the booking\'s traveller and organisers write' },
+  { method: 'GET', file: 'trips/[id]/manifest/index.get', path: () => `/api/trips/${fx.luxorTrip}/manifest`, want: STAFF(200), note: 'guides get no passport or birth-date keys' },
+  { method: 'GET', file: 'trips/[id]/manifest/access-log.get', path: () => `/api/trips/${fx.luxorTrip}/manifest/access-log`, want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'trips/[id]/manifest/remind.post', path: () => `/api/trips/${fx.luxorTrip}/manifest/remind`, body: () => ({ bookingId: fx.luxorBooking }), want: ORGANISER_ONLY(202), note: 'the demo booking\'s second seat is incomplete' },
+  { method: 'GET', file: 'trips/[id]/manifest.csv.get', path: () => `/api/trips/${fx.luxorTrip}/manifest.csv`, want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'trips/[id]/manifest.xlsx.get', path: () => `/api/trips/${fx.luxorTrip}/manifest.xlsx`, want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'trips/[id]/emergency-sheet.get', path: () => `/api/trips/${fx.luxorTrip}/emergency-sheet`, want: STAFF(200) },
   // (end of block)
 
   // ── Personal data: export and erasure ──

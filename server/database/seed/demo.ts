@@ -4,6 +4,7 @@ import type { Database, Role } from '../schema'
 import { DEMO_CLOUD_NAME, DEMO_CLOUD_SOURCE, demoCloudCsv, demoCloudCsvFor } from './demoCloud'
 import { addDays, DEMO_LEAD_DAYS, demoCloudRegionFor, demoScenarioFor, demoSitePlan, type DemoKind } from './demoScenario'
 import { businessDate, nowIso } from '../../services/clock'
+import { seedDemoParticipants } from './demoParticipants'
 
 /**
  * The invented demo scenario (demo data only): Kestrel Sky Journeys, a small company planning
@@ -92,6 +93,7 @@ export async function seedDemo(db: Kysely<Database>): Promise<void> {
     const pick = scenario[kind]
     if (pick?.source === 'generated') await seedGeneratedTrip(db, kind, pick.eclipseId)
   }
+  await seedDemoParticipants(db)
 }
 
 const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
