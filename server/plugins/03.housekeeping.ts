@@ -2,6 +2,7 @@ import { housekeeping } from '../services/bookings'
 import { singleFlight, withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
 import { pruneRateLimits } from '../utils/rateLimit'
+import { sendAlertDigests } from '../services/operations/alerts'
 
 /**
  * Every 30 s: release lapsed holds and stale waitlist offers, reconcile checkouts whose webhook never
@@ -23,6 +24,8 @@ export default defineNitroPlugin((nitro) => {
       await withLease(db, 'housekeeping', everyMs * 2, async () => {
         await housekeeping(db, bookingConfig())
         await pruneRateLimits(db)
+        // Organisers' daily digests: once per organiser per business day (a row per day decides).
+        await sendAlertDigests(db, bookingConfig().appUrl)
         if (!useRuntimeConfig().stripe.secretKey) return
         await reconcilePayments(db, useStripe(), bookingConfig())
         await processRefunds(db, useStripe(), bookingConfig())
