@@ -30,3 +30,20 @@ test('an organiser previews and sends a message to the confirmed travellers; it 
   await expect(messages.getByRole('listitem').filter({ hasText: subject })).toContainText('The coach leaves at 05:30 sharp.')
   await ctx.close()
 })
+
+test('the bookings table filters by name, status and balance owed', async ({ page }) => {
+  await signInAs(page, 'organiser@umbrafield.test')
+  await gotoHydrated(page, '/trips/1/manage')
+  const table = page.getByRole('table', { name: 'Bookings' })
+  const rows = table.locator('tbody tr')
+  await page.getByLabel('Name or e-mail').fill('okafor')
+  await expect(rows.first()).toContainText('Samir Okafor')
+  await expect(rows.filter({ hasNotText: 'Samir Okafor' })).toHaveCount(0)
+  // The demo traveller's booking here is confirmed: no held one matches.
+  await page.getByLabel('Status').selectOption('held')
+  await expect(table).toContainText('No booking matches these filters.')
+  await page.getByLabel('Status').selectOption('confirmed')
+  await page.getByLabel('Balance').selectOption('true')
+  await expect(rows.first()).toContainText('Samir Okafor')
+  await expect(page.getByRole('link', { name: 'Export CSV' })).toHaveAttribute('href', /bookings\.csv\?q=okafor&status=confirmed&owing=true$/)
+})
