@@ -4,6 +4,7 @@ import { singleFlight, withLease } from '../services/leases'
 import { processRefunds, reconcileLedger, reconcilePayments } from '../services/money'
 import { pruneRateLimits } from '../utils/rateLimit'
 import { queueParticipantReminders } from '../services/people/participantReminders'
+import { sendAlertDigests } from '../services/operations/alerts'
 
 /**
  * Every 30 s: release lapsed holds and stale waitlist offers, reconcile checkouts whose webhook never
@@ -27,6 +28,8 @@ export default defineNitroPlugin((nitro) => {
         await pruneRateLimits(db)
         // Participant details still missing 45 and 14 days before a trip (by the business date).
         await queueParticipantReminders(db, useRuntimeConfig().public.appUrl)
+        // Organisers' daily digests: once per organiser per business day (a row per day decides).
+        await sendAlertDigests(db, bookingConfig().appUrl)
         if (!useRuntimeConfig().stripe.secretKey) return
         await reconcilePayments(db, useStripe(), bookingConfig())
         await processRefunds(db, useStripe(), bookingConfig())

@@ -10,6 +10,7 @@ import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
 import { getTripRow, lockTripRow, seatUse, tiersOf, TripConflictError, TripRuleError } from './trips'
+import { alertOrganisers } from './operations/alerts'
 
 type Db = Kysely<Database> | Transaction<Database>
 export type { BookingRow }
@@ -109,6 +110,7 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
       .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').execute()
     await audit(trx, { action: 'booking_hold', actorUserId: user.id, detail: { bookingId: b.id, tripId, seats } })
     await mailBookingHeld(trx, b.id, cfg.appUrl, kind ? { kind } : undefined)
+    await alertOrganisers(trx, { kind: 'booking', bookingId: b.id }, cfg.appUrl)
     return { id: b.id, status: 'held' as const, holdExpiresAt }
   }))
 }
@@ -177,6 +179,7 @@ export async function joinWaitlist(db: Kysely<Database>, user: User, tripId: num
     const use = await seatUse(trx as unknown as Kysely<Database>, tripId, iso(), user.id)
     if (trip.seats - use.taken - use.offered >= seats) throw new BookingStateError('Seats are available: book them instead')
     const w = await trx.insertInto('waitlist').values({ trip_id: tripId, user_id: user.id, seats, status: 'waiting' }).returning('id').executeTakeFirstOrThrow()
+    await alertOrganisers(trx, { kind: 'waitlist', waitlistId: w.id }, cfg.appUrl)
     const position = await trx.selectFrom('waitlist').select((eb) => eb.fn.countAll<number>().as('n'))
       .where('trip_id', '=', tripId).where('status', '=', 'waiting').where('id', '<=', w.id).executeTakeFirstOrThrow()
     return { id: w.id, status: 'waiting' as const, position: Number(position.n) }
@@ -226,6 +229,7 @@ export async function cancelBooking(db: Kysely<Database>, stripe: Stripe | null,
     const amount = Math.round((Math.max(0, await refundableOf(trx, now)) * pct) / 100)
     await requestRefund(trx, b.id, amount, `cancellation, ${pct}% tier`, user.id)
     await audit(trx, { action: 'booking_cancel', actorUserId: user.id, subjectUserId: b.user_id, detail: { bookingId: b.id, refundPct: pct, refundMinor: amount } })
+    await alertOrganisers(trx, { kind: 'cancellation', bookingId: b.id, byOrganiser: user.id !== b.user_id }, cfg.appUrl)
     await offerWaitlist(trx, b.trip_id, cfg)
     return amount
   })

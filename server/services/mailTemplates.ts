@@ -3,10 +3,10 @@ import { safetyLines, type LocalKind } from '../../shared/safety/text'
 
 export interface Mail { subject: string; html: string; text: string }
 
-const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;')
+export const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;')
 
 /** Umbrafield's mail frame: indigo band, gold rule, paper body; plain text alongside. */
-function frame(title: string, bodyHtml: string, bodyText: string, footer = 'Sent by Umbrafield on behalf of your eclipse trip organiser.'): Mail {
+export function frame(title: string, bodyHtml: string, bodyText: string, footer = 'Sent by Umbrafield on behalf of your eclipse trip organiser.'): Mail {
   const html = `<!doctype html><html><body style="margin:0;background:#fbf9f4;font-family:'Work Sans',Arial,sans-serif;color:#1a1633">
 <table role="presentation" width="100%" cellpadding="0" cellspacing="0"><tr><td align="center" style="padding:24px 12px">
 <table role="presentation" width="600" cellpadding="0" cellspacing="0" style="max-width:600px;background:#ffffff;border:1px solid #e9e7f4;border-radius:10px">
@@ -18,7 +18,7 @@ function frame(title: string, bodyHtml: string, bodyText: string, footer = 'Sent
 }
 
 const p = (s: string) => `<p style="margin:0 0 12px">${s}</p>`
-const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
+export const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
 /** The one safety text (shared/safety/text.ts), for the kind of eclipse at the trip's site when known. */
 const safetyHtml = (kind?: LocalKind) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
 const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l) => `- ${l}`).join('\n')}`

@@ -7,6 +7,7 @@ import { audit } from './audit'
 import { mailBookingConfirmed, mailReceipt, mailRefund } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { refundStuckMail } from './mailTemplates'
+import { alertOrganisers } from './operations/alerts'
 import { enqueueMail } from './outbox'
 import { NotFoundError } from './planning'
 import { getTripRow, lockTripRow, seatUse } from './trips'
@@ -225,6 +226,7 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
       await audit(trx, { action: 'booking_confirmed', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: p.amount_minor } })
       await mailBookingConfirmed(trx, b.id, cfg.appUrl)
       await mailReceipt(trx, p.id, cfg.appUrl)
+      await alertOrganisers(trx, { kind: 'payment', paymentId: p.id }, cfg.appUrl)
       if (excess > 0) await stray(excess, 'paid beyond the price')
       return { applied: p.amount_minor - excess, stray: excess }
     }
@@ -238,6 +240,7 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
     await trx.updateTable('bookings').set({ paid_minor: b.paid_minor + p.amount_minor - excess, updated_at: iso() }).where('id', '=', b.id).execute()
     await audit(trx, { action: 'payment_received', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: p.amount_minor, kind: p.kind } })
     await mailReceipt(trx, p.id, cfg.appUrl)
+    await alertOrganisers(trx, { kind: 'payment', paymentId: p.id }, cfg.appUrl)
     if (excess > 0) await stray(excess, 'paid beyond the price')
     return { applied: p.amount_minor - excess, stray: excess }
   }

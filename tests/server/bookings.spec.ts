@@ -225,6 +225,7 @@ describe('who sees what', () => {
     expect((await api(`/api/bookings/${hold.body.id}`, { cookie: trav })).body.refundedMinor).toBe(10_000)
     await expectLedgerMatchesFake(hold.body.id, trav, [paid])
     const csv = await api(`/api/trips/${tripId}/bookings.csv`, { cookie: org })
-    expect(csv.body.split(/\r?\n/)[0]).toBe('booking_id,name,email,seats,status,currency,price_minor,paid_minor,refunded_minor,due_now_minor,balance_minor,created_at')
+    // Amounts in major units beside the currency (see tests/server/messages.spec.ts).
+    expect(csv.body.split(/\r?\n/)[0]).toBe('booking_id,name,email,seats,status,currency,price,paid,refunded,due_now,balance,created_at')
   })
 })

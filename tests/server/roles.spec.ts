@@ -207,6 +207,13 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Alerts, messages and search ──
+  { method: 'GET', file: 'alerts/index.get', path: () => '/api/alerts', want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'alerts/read.post', path: () => '/api/alerts/read', body: json({ all: true }), want: ORGANISER_ONLY(200), note: 'only the caller\'s own alerts' },
+  { method: 'PUT', file: 'alerts/preferences.put', path: () => '/api/alerts/preferences', body: json({ mode: 'immediate' }), want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'trips/[id]/messages/index.get', path: () => `/api/trips/${fx.luxorTrip}/messages`, want: ORGANISER_ONLY(200) },
+  { method: 'POST', file: 'trips/[id]/messages/index.post', path: () => `/api/trips/${fx.luxorTrip}/messages`, body: json({ subject: 'Roles matrix', body: 'A message to the group.', to: 'confirmed' }), want: ORGANISER_ONLY(202) },
+  { method: 'POST', file: 'trips/[id]/messages/preview.post', path: () => `/api/trips/${fx.luxorTrip}/messages/preview`, body: json({ subject: 'Roles matrix', body: 'A preview.', to: 'all' }), want: ORGANISER_ONLY(200) },
+  { method: 'GET', file: 'bookings/[id]/messages.get', path: () => `/api/bookings/${fx.luxorBooking}/messages`, want: [401, 404, 200, 404, 404, 200], note: 'the booking\'s traveller and organisers' },
   // (end of block)
 
   // ── Planning details ──

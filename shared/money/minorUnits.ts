@@ -1,0 +1,31 @@
+/**
+ * Minor units of a currency: how many decimals its amounts have (EUR 2, JPY 0, KWD 3). ISO 4217 lists
+ * them; Intl.NumberFormat carries that table (ECMA-402 CurrencyDigits), so no copy is kept here.
+ * An unknown code falls back to 2, as ECMA-402 does.
+ */
+export function minorUnitDigits(currency: string): number {
+  try {
+    return new Intl.NumberFormat('en', { style: 'currency', currency: currency.toUpperCase() }).resolvedOptions().maximumFractionDigits ?? 2
+  } catch {
+    return 2
+  }
+}
+
+/**
+ * An amount in integer minor units written in major units with exactly the currency's decimals and a
+ * dot ("1234.50" EUR, "120000" JPY, "1.250" KWD), by integer arithmetic: no floating-point rounding.
+ */
+export function toMajorUnits(minor: number, currency: string): string {
+  if (!Number.isSafeInteger(minor)) throw new Error(`not a whole number of minor units: ${minor}`)
+  const digits = minorUnitDigits(currency)
+  const sign = minor < 0 ? '-' : ''
+  const abs = String(Math.abs(minor))
+  if (digits === 0) return `${sign}${abs}`
+  const padded = abs.padStart(digits + 1, '0')
+  return `${sign}${padded.slice(0, -digits)}.${padded.slice(-digits)}`
+}
+
+/** An amount in minor units shown with its currency ("€1,234.50", "¥120,000"), with the currency's own decimals. */
+export function formatMinor(minor: number, currency: string, locale = 'en-GB'): string {
+  return new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() }).format(minor / 10 ** minorUnitDigits(currency))
+}
