@@ -5,6 +5,7 @@ import { NotFoundError, SiteInUseError } from '../services/planning'
 import { TripRuleError } from '../services/trips'
 import { CueRuleError } from '../services/timetable'
 import { TotpError } from '../services/totp'
+import { ActiveBookingError, LastOrganiserEraseError } from '../services/personalData/erase'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -24,6 +25,8 @@ export function httpErrorFor(e: unknown): Error | null {
     return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
   }
   if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
+  if (e instanceof LastOrganiserEraseError) return createError({ statusCode: 409, statusMessage: 'Last organiser', message: e.message, data: { code: 'last_organiser' } })
+  if (e instanceof ActiveBookingError) return createError({ statusCode: 409, statusMessage: 'Booking active', message: e.message, data: { code: 'booking_active', bookingIds: e.bookingIds } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   return null
 }
