@@ -102,7 +102,8 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     const participants = await trx.updateTable('participants').set(blankParticipant(now)).where('booking_id', 'in', some).executeTakeFirst()
     const waitlist = await trx.updateTable('waitlist').set({ status: 'cancelled' })
       .where('user_id', '=', user.id).where('status', 'in', ['waiting', 'offered']).executeTakeFirst()
-    const mine = (eb: ExpressionBuilder<Database, 'outbox'>) => eb.or([eb('to_email', '=', current.email), eb('booking_id', 'in', some)])
+    // Mail to them; mail to staff about their booking is the staff's record and stays.
+    const mine = (eb: ExpressionBuilder<Database, 'outbox'>) => eb('to_email', '=', current.email)
     // A message not yet sent is given up: it would carry their name and address out after erasure.
     await trx.updateTable('outbox').set({ status: 'failed', last_error: 'not sent: the recipient had their data erased', sending_since: null })
       .where(mine).where('status', 'in', ['queued', 'sending']).execute()

@@ -30,7 +30,7 @@ export async function exportPersonalData(db: Kysely<Database>, user: User) {
     .where('waitlist.user_id', '=', user.id).orderBy('waitlist.id').execute()
   const emails = await db.selectFrom('outbox')
     .select(['id', 'kind', 'to_email', 'subject', 'text', 'status', 'created_at', 'sent_at', 'booking_id', 'trip_id'])
-    .where((eb) => eb.or([eb('to_email', '=', user.email), eb('booking_id', 'in', some)]))
+    .where('to_email', '=', user.email)
     .orderBy('id').execute()
   const activity = await db.selectFrom('audit_log').select(['action', 'at', 'actor_user_id'])
     .where((eb) => eb.or([eb('actor_user_id', '=', user.id), eb('subject_user_id', '=', user.id)])).orderBy('id').execute()
