@@ -280,7 +280,7 @@ describe(`personal data (${TEST_DB})`, () => {
     const sealedValues = async () => {
       const out: Array<{ where: string; value: string }> = []
       for (const c of columns) {
-        const rows = await (db as any).selectFrom(c.table).select([c.column, c.key]).where(c.column, 'is not', null).execute() // eslint-disable-line @typescript-eslint/no-explicit-any
+        const rows = await (db as any).selectFrom(c.table).select([c.column, c.key]).where(c.column, 'is not', null).orderBy(c.key).execute()
         for (const r of rows) out.push({ where: `${c.table}.${c.column}#${r[c.key]}`, value: r[c.column] })
       }
       return out

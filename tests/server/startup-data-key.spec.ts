@@ -10,10 +10,10 @@ const server = resolve(__dirname, '../../.output/server/index.mjs')
 
 /** Starts the built app in production with `env` on a throwaway database; the process is expected to exit. */
 async function start(env: Record<string, string | undefined>) {
-  const full = { ...process.env, NODE_ENV: 'production', PORT: String(await freePort()), NUXT_DB_PATH: join(mkdtempSync(join(tmpdir(), 'uf-start-')), 'x.sqlite'),
-    NUXT_SESSION_PASSWORD: 'a-session-password-that-is-long-enough-0123456789', ...env } as Record<string, string>
-  for (const [k, v] of Object.entries(env)) if (v === undefined) delete full[k]
-  delete full.NUXT_SEED
+  const merged: Record<string, string | undefined> = { ...process.env, NODE_ENV: 'production', PORT: String(await freePort()), NUXT_DB_PATH: join(mkdtempSync(join(tmpdir(), 'uf-start-')), 'x.sqlite'),
+    NUXT_SESSION_PASSWORD: 'a-session-password-that-is-long-enough-0123456789', ...env, NUXT_SEED: undefined }
+  // Unset (undefined) variables are left out, not passed as empty.
+  const full = Object.fromEntries(Object.entries(merged).filter((e): e is [string, string] => e[1] !== undefined))
   return spawnSync(process.execPath, [server], { env: full, encoding: 'utf8', timeout: 20_000 })
 }
 
