@@ -242,6 +242,13 @@ describe(`personal data (${TEST_DB})`, () => {
         expect(erased_at).not.toBeNull()
       }
     }
+    // Even the details stored in the clear are gone from the raw file and its log (SQLite: zeroed and checkpointed).
+    if (TEST_DB === 'SQLite') {
+      const raw = [dbTarget, `${dbTarget}-wal`].filter((f) => existsSync(f)).map((f) => readFileSync(f).toString('latin1')).join('\n')
+      for (const v of [dh[0]!.fullName, dh[1]!.fullName, dp.fullName, c.name]) expect(raw, `still in the file: ${v}`).not.toContain(v)
+      // …while another traveller's name, never erased, is still there to be found.
+      expect(raw).toContain(a.d[0]!.fullName)
+    }
     // The held seats are back on sale; the ledger is unchanged.
     expect((await db.selectFrom('bookings').select('status').where('id', '=', heldId).executeTakeFirstOrThrow()).status).toBe('cancelled')
     expect((await api(`/api/trips/${holdTrip}`)).body.seatsLeft).toBe(3)

@@ -134,5 +134,19 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     // No ip, no name, no address: the entry itself holds nothing personal.
     await audit(trx, { action: 'account_erased', actorUserId: user.id, subjectUserId: user.id, detail: { formerRole: current.role, bookingsKept: bookingIds.length, ...result } })
     return result
+  }).then(async (result) => {
+    await flushSqliteLog(db)
+    return result
   })
+}
+
+/**
+ * SQLite keeps the pages as they were before a change in its write-ahead log until a checkpoint
+ * copies them back: checkpoint now and empty the log, so the erased text is gone from both files
+ * (with secure_delete on, server/database/connection.ts). Readers still open may keep it waiting;
+ * the next checkpoint catches up. PostgreSQL reclaims dead rows with its own (auto)vacuum.
+ */
+export async function flushSqliteLog(db: Kysely<Database>): Promise<void> {
+  if (isPostgres(db)) return
+  await sql`pragma wal_checkpoint(TRUNCATE)`.execute(db)
 }

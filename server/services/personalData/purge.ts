@@ -3,6 +3,7 @@ import type { Database } from '../../database/schema'
 import { audit } from '../audit'
 import { businessDate, nowIso } from '../clock'
 import { blankParticipant, personalDataDays } from './blank'
+import { flushSqliteLog } from './erase'
 
 /** The last day of a trip whose participants' details are due for purging today: `days` whole days before today. */
 export function purgeBefore(today: string, days: number): string {
@@ -33,5 +34,6 @@ export async function purgeEndedTrips(db: Kysely<Database>, days = personalDataD
       return n
     })
   }
+  if (total) await flushSqliteLog(db)
   return total
 }
