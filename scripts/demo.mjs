@@ -40,6 +40,10 @@ const secretFile = join(dirname(resolve(DB_PATH)), '.session-secret')
 mkdirSync(dirname(secretFile), { recursive: true })
 if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString('hex'), { mode: 0o600 })
 const sessionPassword = process.env.NUXT_SESSION_PASSWORD || readFileSync(secretFile, 'utf8').trim()
+// The data key (personal data at rest, AES-256-GCM) beside it, likewise generated once and git-ignored.
+const dataKeyFile = join(dirname(resolve(DB_PATH)), '.data-key')
+if (!existsSync(dataKeyFile)) writeFileSync(dataKeyFile, randomBytes(32).toString('base64'), { mode: 0o600 })
+const dataKey = process.env.NUXT_DATA_KEY || readFileSync(dataKeyFile, 'utf8').trim()
 
 // An invented height model for trying the terrain check (demo data, not a real place's terrain).
 const DEMO_TERRAIN = 'data/demo-ridge-tangier.tif'
@@ -75,7 +79,7 @@ for (const f of fakes) {
 }
 const appEnv = {
   ...fakeEnv,
-  NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_PUBLIC_APP_URL: APP_URL,
+  NUXT_DB_PATH: DB_PATH, NUXT_SEED: 'demo', UMBRAFIELD_ALLOW_DEMO_SEED: '1', NUXT_SESSION_PASSWORD: sessionPassword, NUXT_DATA_KEY: dataKey, NUXT_PUBLIC_APP_URL: APP_URL,
   ...(DATABASE_URL ? { DATABASE_URL } : {}),
   // The demo's accounts share a published password: it listens on this machine only.
   NITRO_HOST: process.env.HOST || '127.0.0.1',

@@ -48,6 +48,8 @@ export function openDatabase(target: string): Kysely<Database> {
   sqlite.pragma('foreign_keys = ON')
   sqlite.pragma('busy_timeout = 5000')
   sqlite.pragma('synchronous = NORMAL')
+  // Erased and purged personal data is overwritten with zeros in the file, not merely marked free.
+  sqlite.pragma('secure_delete = ON')
   return new Kysely<Database>({ dialect: new ImmediateSqliteDialect({ database: sqlite }) })
 }
 

@@ -26,6 +26,8 @@ export interface UsersTable {
   email_confirmed_at: ColumnType<string | null, string | null | undefined, string | null>
   /** Raised to end every session at once (sign-out, password or role change, "sign out everywhere"). */
   session_version: Auto<number>
+  /** When the owner had the account's personal data erased (UTC ISO; migration 0021); null otherwise. */
+  erased_at: ColumnType<string | null, string | null | undefined, string | null>
 }
 
 export interface AuditLogTable {

@@ -113,7 +113,7 @@ export async function confirmEmail(db: Kysely<Database>, token: string): Promise
 }
 
 /** An advisory-lock key for role changes on PostgreSQL (any constant; "roles" in ASCII). */
-const ROLE_CHANGE_LOCK = 0x726f6c6573
+export const ROLE_CHANGE_LOCK = 0x726f6c6573
 
 export class LastOrganiserError extends Error {}
 export class NotOrganiserError extends Error {}

@@ -31,8 +31,8 @@ export const TOTP = { periodSec: 30, digits: 6, driftSteps: 1, issuer: 'Umbrafie
 const STAFF: readonly Role[] = ['organiser', 'guide']
 export const isStaff = (role: Role) => STAFF.includes(role)
 
-const activeContext = (userId: number) => `totp:${userId}`
-const pendingContext = (userId: number) => `totp-pending:${userId}`
+export const activeContext = (userId: number) => `totp:${userId}`
+export const pendingContext = (userId: number) => `totp-pending:${userId}`
 
 /** A refusal with an HTTP status and a machine-readable code (mapped in server/utils/errors.ts). */
 export class TotpError extends Error {

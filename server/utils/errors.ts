@@ -9,6 +9,7 @@ import { TotpError } from '../services/totp'
 import { VoyageUnreachable } from '../services/sea/voyagePlan'
 import { ForecastUnavailableError, TooEarlyError } from '../services/forecasts'
 import { ParticipantRuleError } from '../services/people/participants'
+import { ActiveBookingError, LastOrganiserEraseError } from '../services/personalData/erase'
 
 /** The HTTP error for a service error, or null for anything unexpected (which stays a generic 500, no stack). */
 export function httpErrorFor(e: unknown): Error | null {
@@ -35,6 +36,8 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
   if (e instanceof TooEarlyError) return createError({ statusCode: 409, statusMessage: 'Too early', message: e.message, data: { code: 'too_early', daysToWait: e.daysToWait, opensOn: e.opensOn } })
   if (e instanceof ForecastUnavailableError) return createError({ statusCode: 502, statusMessage: 'Forecast unavailable', message: e.message, data: { code: 'forecast_unavailable' } })
+  if (e instanceof LastOrganiserEraseError) return createError({ statusCode: 409, statusMessage: 'Last organiser', message: e.message, data: { code: 'last_organiser' } })
+  if (e instanceof ActiveBookingError) return createError({ statusCode: 409, statusMessage: 'Booking active', message: e.message, data: { code: 'booking_active', bookingIds: e.bookingIds } })
   if (e instanceof BookingStateError) return createError({ statusCode: 409, statusMessage: 'Conflict', message: e.message, data: { code: 'state' } })
   if (e instanceof VoyageUnreachable) return createError({ statusCode: 422, statusMessage: 'Unreachable', message: e.message, data: { code: 'unreachable', reason: e.reason } })
   return null

@@ -4,7 +4,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
 import { isPostgresUrl } from '../../server/database/dialect'
 import { unseal } from '../../server/services/sealed'
-import { advanceClock, api, caughtMail, inviteAndChoosePassword, linkToken, ORGANISER, signIn, TEST_DB, TRAVELLER, useApp } from './app'
+import { advanceClock, api, caughtMail, inviteAndChoosePassword, linkToken, ORGANISER, signIn, TEST_DATA_KEY, TEST_DATA_KEY_ID, TEST_DB, TRAVELLER, useApp } from './app'
 
 // X-Forwarded-For is believed from the loopback proxy, so each test can speak from its own address.
 const { dbTarget } = await useApp({ NUXT_TRUSTED_PROXIES: '127.0.0.1' })
@@ -12,6 +12,8 @@ const db = openDatabase(dbTarget)
 afterAll(() => db.destroy())
 // The app's session secret (tests/server/app.ts): sealed outbox tokens are opened with its derived key.
 process.env.NUXT_SESSION_PASSWORD = 'test-session-password-that-is-long-enough-0123456789'
+// …and its data key, which seals them (tests/server/app.ts).
+Object.assign(process.env, { NUXT_DATA_KEY: TEST_DATA_KEY, NUXT_DATA_KEY_ID: TEST_DATA_KEY_ID })
 
 const from = (ip: string) => ({ 'x-forwarded-for': ip })
 const reset = (email: string, ip: string) => api('/api/auth/password-reset', { method: 'POST', body: { email }, headers: from(ip) })

@@ -31,6 +31,13 @@ export async function freshPostgresDatabase(): Promise<string | null> {
   return u.toString()
 }
 
+/**
+ * The data key the test apps seal personal data with (32 bytes, base64; a production build refuses to
+ * start without one unless it seeds the demo). Instances started beside the test app use it too.
+ */
+export const TEST_DATA_KEY = Buffer.alloc(32, 7).toString('base64')
+export const TEST_DATA_KEY_ID = 'test1'
+
 /** Which database the server tests run on, for test names and messages. */
 export const TEST_DB = process.env.UMBRAFIELD_TEST_PG_URL ? 'PostgreSQL' : 'SQLite'
 
@@ -57,6 +64,8 @@ export async function useApp(env: Record<string, string> = {}) {
       // The built app is a production build: demo seeding must be allowed explicitly.
       UMBRAFIELD_ALLOW_DEMO_SEED: '1',
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789',
+      NUXT_DATA_KEY: TEST_DATA_KEY,
+      NUXT_DATA_KEY_ID: TEST_DATA_KEY_ID,
       NUXT_PUBLIC_APP_URL: `http://127.0.0.1:${TEST_APP_PORT}`,
       UMBRAFIELD_HOUSEKEEPING_MS: '1000',
       // Suites make many holds and sign-ups from one address; the limits themselves are tested in holds.spec.ts.

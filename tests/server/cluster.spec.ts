@@ -12,7 +12,7 @@ import { enqueueMail, processOutbox } from '../../server/services/outbox'
 import { url } from '@nuxt/test-utils/e2e'
 import { fakeServices } from '../../scripts/fakes.mjs'
 import { freePort } from '../../scripts/free-port.mjs'
-import { api, freshPostgresDatabase, inviteAndChoosePassword, ORGANISER, signIn, TEST_DB, TEST_PORTS, useApp } from './app'
+import { api, freshPostgresDatabase, inviteAndChoosePassword, ORGANISER, signIn, TEST_DATA_KEY, TEST_DATA_KEY_ID, TEST_DB, TEST_PORTS, useApp } from './app'
 
 // What several app instances on one database rely on, checked on the database this run uses
 // (SQLite, or PostgreSQL under scripts/with-postgres.mjs). The app is started for the health check
@@ -34,6 +34,7 @@ async function startInstance(children: ChildProcess[]): Promise<string> {
       ...process.env, ...Object.assign({}, ...fakeServices({ appPort: TEST_PORTS.app }).map((f) => f.appEnv)),
       PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: dbTarget, NUXT_DB_PATH: '',
       NUXT_SESSION_PASSWORD: 'test-session-password-that-is-long-enough-0123456789', // as tests/server/app.ts gives the test app
+      NUXT_DATA_KEY: TEST_DATA_KEY, NUXT_DATA_KEY_ID: TEST_DATA_KEY_ID,
       NUXT_PUBLIC_APP_URL: base, NUXT_TRUSTED_PROXIES: '127.0.0.1', UMBRAFIELD_HOLD_LIMIT: '1000', UMBRAFIELD_TEST_CLOCK: '1',
     },
   })

@@ -232,6 +232,8 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Personal data: export and erasure ──
+  { method: 'GET', file: 'me/export.get', path: () => '/api/me/export', want: USER(200), note: 'each caller gets their own data' },
+  { method: 'POST', file: 'me/erase.post', path: () => '/api/me/erase', body: json({ password: 'not the password', confirm: true }), want: USER(400), note: 'a wrong password erases nothing (400 naming it)' },
   // (end of block)
 
   // ── Forecast outlook ──

@@ -1,6 +1,14 @@
 import type { Kysely } from 'kysely'
 
-// Reserved: filled in by the work it is named after.
-export async function up(_db: Kysely<unknown>): Promise<void> {}
+/**
+ * Personal data: an account erased at its owner's request keeps its row (bookings and the money
+ * ledger point at it, and accounting law keeps those) but loses everything personal; `erased_at`
+ * says when (UTC ISO), so lists can say "erased account" rather than show a placeholder as a person.
+ */
+export async function up(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('users').addColumn('erased_at', 'text').execute()
+}
 
-export async function down(_db: Kysely<unknown>): Promise<void> {}
+export async function down(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('users').dropColumn('erased_at').execute()
+}
