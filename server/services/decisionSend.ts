@@ -5,7 +5,7 @@ import webpush from 'web-push'
 import { isPostgres } from '../database/dialect'
 import type { Database } from '../database/schema'
 import { nowDate, nowIso, nowMs } from './clock'
-import { messageSecretContext, smsContext } from './decisions'
+import { messageSecretContext, smsContext, VAPID_SETTING, vapidContext } from './decisionContexts'
 import { SECRET_TOKEN } from './outbox'
 import { seal, unseal } from './sealed'
 import { getSetting } from './settings'
@@ -59,8 +59,7 @@ export function twilioSender(c: SmsConfig): SmsSender {
   return async (to, body) => (await client.messages.create({ to, from: c.from, body })).sid
 }
 
-const VAPID_KEY = 'web_push_vapid'
-const vapidContext = 'web-push:vapid'
+const VAPID_KEY = VAPID_SETTING
 
 /**
  * The VAPID key pair (RFC 8292) this app signs pushes with: made on first need and kept in

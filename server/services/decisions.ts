@@ -1,3 +1,4 @@
+import { ackContext, messageSecretContext, smsContext } from './decisionContexts'
 import { createHash, randomBytes, randomUUID } from 'node:crypto'
 import type { Kysely, Transaction } from 'kysely'
 import { localTime } from '../../shared/time/local'
@@ -29,10 +30,7 @@ export class DecisionSupersededError extends Error {}
 export interface DecisionInput { siteId: number; departAt: string; meetingPoint?: string | null; message?: string | null }
 
 const hashToken = (t: string) => createHash('sha256').update(t).digest('hex')
-const ackContext = (recipientId: number) => `decision-ack:${recipientId}`
-/** The sealing context of an SMS number or a queued message's token (bound to its own message id). */
-export const smsContext = (messageId: string) => `decision-sms:${messageId}`
-export const messageSecretContext = (messageId: string) => `decision-message:${messageId}`
+export { messageSecretContext, smsContext }
 /** Outbox rows of a decision notice carry this dedupe key prefix, so their delivery can be read per person. */
 const mailKey = (recipientId: number) => `decision-ack:${recipientId}:${randomUUID()}`
 

@@ -3,7 +3,7 @@ import { join, relative, resolve } from 'node:path'
 import { sql } from 'kysely'
 import { describe, expect, it } from 'vitest'
 import { migrateToLatest, openDatabase } from '../../server/database/connection'
-import { SEALED_COLUMNS, SEALED_WRITERS } from '../../server/services/personalData/sealedColumns'
+import { SEALED_COLUMNS, SEALED_SETTINGS, SEALED_WRITERS } from '../../server/services/personalData/sealedColumns'
 
 const root = resolve(__dirname, '../..')
 function files(dir: string): string[] {
@@ -29,7 +29,7 @@ describe('the registry of sealed columns (what keys:rotate re-seals)', () => {
   })
 
   it('every column a writer seals is in SEALED_COLUMNS', () => {
-    const registered = new Set(SEALED_COLUMNS.map((c) => `${c.table}.${c.column}`))
+    const registered = new Set([...SEALED_COLUMNS.map((c) => `${c.table}.${c.column}`), ...SEALED_SETTINGS.map((s) => `app_settings:${s.key}`)])
     for (const [file, cols] of Object.entries(SEALED_WRITERS)) {
       for (const c of cols) expect(registered.has(c), `${file} writes ${c}`).toBe(true)
     }

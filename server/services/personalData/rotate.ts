@@ -1,7 +1,7 @@
 import type { Kysely } from 'kysely'
 import type { Database } from '../../database/schema'
 import { keyRing, seal, sealedKeyId, unseal } from '../sealed'
-import { SEALED_COLUMNS, type SealedColumn } from './sealedColumns'
+import { SEALED_COLUMNS, SEALED_SETTINGS, type SealedColumn } from './sealedColumns'
 
 export interface ColumnReport {
   column: string
@@ -76,6 +76,34 @@ export async function rotateSealedValues(db: Kysely<Database>, opts: { checkOnly
             r.rotated += Number(u.numUpdatedRows)
           }
         })
+      }
+    }
+    report.columns.push(r)
+    report.totals.values += r.values
+    report.totals.rotated += r.rotated
+    report.totals.failed += r.failed
+    report.totals.alreadyCurrent += r.byKey[currentId] ?? 0
+  }
+  // Sealed values inside app settings' JSON (e.g. the web-push private key), one conditional update each.
+  for (const st of opts.columns ? [] : SEALED_SETTINGS) {
+    const r: ColumnReport = { column: `app_settings:${st.key}.${st.field}`, values: 0, byKey: {}, rotated: 0, failed: 0 }
+    const row = await db.selectFrom('app_settings').select('value').where('key', '=', st.key).executeTakeFirst()
+    const parsed = row ? (JSON.parse(row.value) as Record<string, unknown>) : null
+    const value = parsed && typeof parsed[st.field] === 'string' ? (parsed[st.field] as string) : null
+    if (row && parsed && value) {
+      const keyId = sealedKeyId(value) ?? '(not sealed)'
+      r.values++
+      r.byKey[keyId] = 1
+      try {
+        const plain = unseal(value, st.context)
+        if (keyId !== currentId && !opts.checkOnly) {
+          const next = JSON.stringify({ ...parsed, [st.field]: seal(plain, st.context) })
+          const u = await db.updateTable('app_settings').set({ value: next }).where('key', '=', st.key).where('value', '=', row.value).executeTakeFirst()
+          r.rotated += Number(u.numUpdatedRows)
+        }
+      } catch (e) {
+        r.failed++
+        report.failures.push(`${r.column}: ${(e as Error).message}`)
       }
     }
     report.columns.push(r)

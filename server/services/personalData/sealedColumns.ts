@@ -1,6 +1,7 @@
 import { PARTICIPANT_SEALED, participantContext, type SealedParticipantField } from '../people/participantSeal'
 import { secretContext } from '../outbox'
 import { activeContext, pendingContext } from '../totp'
+import { ackContext, messageSecretContext, smsContext, VAPID_SETTING, vapidContext } from '../decisionContexts'
 
 /**
  * Every database column that holds values made by seal() (server/services/sealed.ts), with how to
@@ -33,6 +34,15 @@ export const SEALED_COLUMNS: readonly SealedColumn[] = [
   { table: 'user_totp', column: 'secret_sealed', key: 'user_id', reads: [], context: (r) => activeContext(Number(r.user_id)) },
   { table: 'user_totp', column: 'pending_sealed', key: 'user_id', reads: [], context: (r) => pendingContext(Number(r.user_id)) },
   { table: 'outbox', column: 'sealed_secret', key: 'id', reads: ['message_id'], context: (r) => secretContext(String(r.message_id)) },
+  { table: 'decision_recipients', column: 'token_sealed', key: 'id', reads: [], context: (r) => ackContext(Number(r.id)) },
+  { table: 'decision_messages', column: 'to_sealed', key: 'id', reads: ['message_id'], context: (r) => smsContext(String(r.message_id)) },
+  { table: 'decision_messages', column: 'sealed_secret', key: 'id', reads: ['message_id'], context: (r) => messageSecretContext(String(r.message_id)) },
+]
+
+/** Sealed values kept inside an app setting's JSON: the setting's key, the JSON field and its context. */
+export interface SealedSetting { key: string; field: string; context: string }
+export const SEALED_SETTINGS: readonly SealedSetting[] = [
+  { key: VAPID_SETTING, field: 'privateKeySealed', context: vapidContext },
 ]
 
 /**
@@ -44,4 +54,6 @@ export const SEALED_WRITERS: Readonly<Record<string, readonly string[]>> = {
   'server/services/totp.ts': ['user_totp.secret_sealed', 'user_totp.pending_sealed'],
   'server/services/outbox.ts': ['outbox.sealed_secret'],
   'server/database/migrations/0013_account_tokens.ts': ['outbox.sealed_secret'],
+  'server/services/decisions.ts': ['decision_recipients.token_sealed', 'decision_messages.to_sealed', 'decision_messages.sealed_secret'],
+  'server/services/decisionSend.ts': [`app_settings:${VAPID_SETTING}`],
 }
