@@ -60,7 +60,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
       doc.text(`${c.altitudeDeg.toFixed(1)}°`, left + cols[4]!, y)
       doc.text(`${c.azimuthDeg.toFixed(0)}°`, left + cols[5]!, y)
       y += 16
-      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(`contact point ${c.direction} (P ${c.positionAngleDeg?.toFixed(0)}°, V ${c.vertexAngleDeg?.toFixed(0)}°)`, left + cols[1]!, y - 3); y += 10 }
+      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(`contact point ${c.direction} (position angle ${c.positionAngleDeg?.toFixed(0)}° from north, vertex angle ${c.vertexAngleDeg?.toFixed(0)}° from the top)`, left + cols[1]!, y - 3); y += 10 }
     }
     // Sun disc with the C2 and C3 points (vertex angles: measured from the top, counter-clockwise).
     const tableBottom = y
