@@ -9,6 +9,7 @@ import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
+import { holdInOneStatement } from './holdStatement'
 import { claimSeats, ensureSeatCounter, releaseSeats, seatsClaimed } from './seatCounter'
 import { getTripRow, lockTripRow, seatUse, tiersOf, TripRuleError } from './trips'
 
@@ -115,12 +116,24 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     throw new SoldOutError(Math.max(0, trip.seats - Number(trip.claimed) + Number(trip.myOffer)))
   }
   // What the held e-mail says about the eclipse seen at the trip's site.
-  const kind = await tripKind(db, trip)
+  const kind = await tripKindSoon(db, trip)
+  if (isPostgres(db) && Number(trip.myOffer) === 0) {
+    // PostgreSQL, no offer to take up: the whole hold is one statement (see holdInOneStatement).
+    const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
+    const r = await holdInOneStatement(db, { user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
+    if (r === 'sold_out') throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))
+    if (r === 'hold_exists') {
+      const mine = await db.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').executeTakeFirstOrThrow()
+      throw new HoldExistsError(mine.id, mine.seats)
+    }
+    return { id: r.id, status: 'held' as const, holdExpiresAt }
+  }
   return db.transaction().execute(async (trx) => {
     // PostgreSQL: one hold at a time per traveller and trip (two tabs), never across travellers.
     if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(${tripId}::int, ${user.id}::int)`.execute(trx)
+    // Any hold of this traveller here, lapsed or not (lapsed ones were let go above): bookings_one_hold allows one.
     const mine = await trx.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id)
-      .where('status', '=', 'held').where('hold_expires_at', '>', iso()).executeTakeFirst()
+      .where('status', '=', 'held').executeTakeFirst()
     if (mine) throw new HoldExistsError(mine.id, mine.seats)
     const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
     const b = await trx.insertInto('bookings').values({
@@ -139,6 +152,21 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     }
     return { id: b.id, status: 'held' as const, holdExpiresAt }
   })
+}
+
+/**
+ * The kind of eclipse at a trip's site for the held e-mail's wording, remembered for a minute per
+ * eclipse and site (working it out runs the engine; a rush of holds on one trip needs it once).
+ */
+const kindMemo = new Map<string, { kind: Awaited<ReturnType<typeof tripKind>>; at: number }>()
+async function tripKindSoon(db: Kysely<Database>, t: { eclipse_id: string; primary_site_id: number }) {
+  const key = `${t.eclipse_id}:${t.primary_site_id}`
+  const hit = kindMemo.get(key)
+  if (hit && nowMs() - hit.at < 60_000) return hit.kind
+  const kind = await tripKind(db, t)
+  if (kindMemo.size > 500) kindMemo.clear()
+  kindMemo.set(key, { kind, at: nowMs() })
+  return kind
 }
 
 /**

@@ -38,6 +38,14 @@ export const WorkspaceCreate = z.object({
 export const WorkspacePatch = z.object({
   name: z.string().trim().min(1).max(120).regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
   climatologyId: z.number().int().positive().nullable().optional(),
+  /**
+   * P(clear) weights of the scattered and broken sky categories, or null for the published ones.
+   * Clear counts 1 and overcast 0, so 1 ≥ scattered ≥ broken ≥ 0.
+   */
+  cloudWeights: z.object({
+    scattered: z.number().min(0, 'scattered must be 0 to 1').max(1, 'scattered must be 0 to 1'),
+    broken: z.number().min(0, 'broken must be 0 to 1').max(1, 'broken must be 0 to 1'),
+  }).refine((w) => w.broken <= w.scattered, { message: 'broken cloud cannot weigh more than scattered cloud', path: ['broken'] }).nullable().optional(),
 })
 
 /**

@@ -7,6 +7,11 @@ import { doubleType } from '../dialect'
  * Also the workspace's cloud weights for P(clear) (null: the published defaults).
  */
 export async function up(db: Kysely<unknown>): Promise<void> {
+  // One active hold per traveller and trip, now kept by the database (holds no longer take the trip's
+  // lock). Earlier duplicates, if any, keep only the newest hold.
+  await sql`update bookings set status = 'expired' where status = 'held' and exists (
+    select 1 from bookings b2 where b2.trip_id = bookings.trip_id and b2.user_id = bookings.user_id and b2.status = 'held' and b2.id > bookings.id)`.execute(db)
+  await sql`create unique index bookings_one_hold on bookings (trip_id, user_id) where status = 'held'`.execute(db)
   await db.schema.createTable('seat_counters')
     .addColumn('trip_id', 'integer', (c) => c.primaryKey().references('trips.id').onDelete('cascade'))
     .addColumn('claimed', 'integer', (c) => c.notNull().defaultTo(0))
@@ -21,6 +26,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
 }
 
 export async function down(db: Kysely<unknown>): Promise<void> {
+  await sql`drop index bookings_one_hold`.execute(db)
   await db.schema.alterTable('workspaces').dropColumn('cloud_weight_broken').execute()
   await db.schema.alterTable('workspaces').dropColumn('cloud_weight_scattered').execute()
   await db.schema.dropTable('seat_counters').execute()
