@@ -117,8 +117,9 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
   }
   // What the held e-mail says about the eclipse seen at the trip's site.
   const kind = await tripKindSoon(db, trip)
-  if (isPostgres(db) && Number(trip.myOffer) === 0) {
-    // PostgreSQL, no offer to take up: the whole hold is one statement (see holdInOneStatement).
+  if (isPostgres(db) && Number(trip.myOffer) === 0 && !trip.mine) {
+    // PostgreSQL, no offer to take up and no hold here yet: the whole hold is one statement (see
+    // holdInOneStatement). Otherwise the transaction below says which hold exists, or takes up the offer.
     const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
     const r = await holdInOneStatement(db, { user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
     if (r === 'sold_out') throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))

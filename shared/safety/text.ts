@@ -47,13 +47,13 @@ export function localKindOf(type: string): LocalKind {
 // solar filters over the front of any optics, never the naked eye on a partial or annular phase,
 // and local rules and qualified advice come first.
 const COMMON_BEFORE = [
-  'Any direct look at the Sun goes through an eclipse viewer (card glasses or a hand-held viewer) certified to ISO 12312-2.',
+  'Any direct look at the Sun goes through an ISO 12312-2 eclipse viewer (card glasses or a hand-held viewer).',
   'Optics gather sunlight: a lens, binocular or telescope gets a proper solar filter over its front end, held on firmly, and a viewer worn behind the eyepiece protects nothing.',
   'Hold each viewer and filter up to the light before the day starts; one with a hole, a scratch or a loose fit is set aside, not used.',
   'Young observers stay within an adult\'s reach, with the viewer on, whenever they look up.',
   'Never watch an annular or partial phase with the naked eye: the uncovered part of the Sun can still burn the retina.',
 ]
-const FINAL = 'Where local rules or qualified advice say otherwise, they come first.'
+const FINAL = 'Local rules and qualified advice come first.'
 
 /**
  * The safety lines for a kind of local eclipse; without a kind, the general wording.

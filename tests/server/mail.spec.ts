@@ -66,7 +66,7 @@ describe('itinerary and booking e-mail', () => {
     expect(mail.text).toContain(c2.local.slice(11)) // local C2 time, to the second
     expect(mail.html).toContain(c2.local.slice(11))
     expect(mail.text).toContain('ISO 12312-2')
-    expect(mail.text).toContain('Where local rules or qualified advice say otherwise, they come first.')
+    expect(mail.text).toContain('Local rules and qualified advice come first.')
     expect(mail.text).toContain('C2 — totality begins')
     // The time basis is stated: clock times in UTC, with TT − UTC and UT1 − UTC.
     // The line under the contact times says which column is local and which UTC (never "Times are UTC" alone).

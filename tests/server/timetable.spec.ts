@@ -129,7 +129,7 @@ describe('contact timetable', () => {
     expect(descriptions).toHaveLength(5 + s.cues.length)
     for (const d of descriptions) {
       expect(d).toContain('ISO 12312-2')
-      expect(d).toContain('Where local rules or qualified advice say otherwise, they come first.')
+      expect(d).toContain('Local rules and qualified advice come first.')
       expect(d).toContain('TT − UTC = 69.184 s')
     }
   })

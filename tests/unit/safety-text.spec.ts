@@ -15,7 +15,7 @@ describe('the safety text', () => {
     expect(t).toMatch(/each viewer and filter/)
     expect(t).toMatch(/Young observers/)
     expect(t).toMatch(/Never watch an annular or partial phase with the naked eye/)
-    expect(t).toMatch(/local rules or qualified advice say otherwise, they come first\.$/)
+    expect(t).toMatch(/Local rules and qualified advice come first\.$/)
     // ISO 12312-2 is named for viewers only, never as the standard for filters on optics.
     expect(t).not.toMatch(/ISO 12312-2[^.]*filters/)
   })
