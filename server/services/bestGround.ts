@@ -7,7 +7,7 @@ import { BEST_SPOT_TIE_SEC, type BestSpotsInput } from '../../shared/schemas/bes
 import type { Database } from '../database/schema'
 import { resolveTimeBasis, timeBasisOut } from '../eclipse/report'
 import { expectedSeenGrid, SURFACE_MARGIN_KM, SURFACE_STEP_DEG, surfaceBands, wrapLon } from '../eclipse/surface'
-import { cloudAt, eclipseMonth, monthGrids, pClearSampler } from './climatology'
+import { cloudAt, eclipseMonth, pClearSampler, workspaceGrids } from './climatology'
 import { elementsInForce } from './eclipses'
 import { isLand } from './land'
 import { getWorkspace } from './planning'
@@ -23,7 +23,7 @@ async function groundContext(db: Kysely<Database>, workspaceId: number) {
   const { el, key, deltaTOverride } = await elementsInForce(db, ws.eclipse_id)
   const dt = resolveTimeBasis(el, deltaTOverride)
   const month = eclipseMonth(ws.eclipse_id)
-  const grids = ws.climatology_id ? await monthGrids(db, ws.climatology_id, month) : null
+  const grids = await workspaceGrids(db, ws)
   const terrain = await terrainFor(db, workspaceId)
   return { ws, el, elementsKey: key, dt, month, grids, terrain }
 }
@@ -94,7 +94,7 @@ function buildSurface(ctx: GroundContext) {
  */
 export async function expectedSeenSurface(db: Kysely<Database>, workspaceId: number) {
   const ctx = await groundContext(db, workspaceId)
-  const key = [ctx.ws.eclipse_id, ctx.elementsKey, ctx.dt.deltaTSec, ctx.ws.climatology_id ?? 'none', ctx.month].join('|')
+  const key = [ctx.ws.eclipse_id, ctx.elementsKey, ctx.dt.deltaTSec, ctx.ws.climatology_id ?? 'none', ctx.month, ctx.grids?.weights ? `${ctx.grids.weights.scattered}/${ctx.grids.weights.broken}` : '-'].join('|')
   const hit = surfaceCache.get(key)
   if (hit) {
     surfaceCache.delete(key)

@@ -1,4 +1,4 @@
-import type { Kysely, Transaction } from 'kysely'
+import { sql, type Kysely, type Transaction } from 'kysely'
 import type Stripe from 'stripe'
 import { MAX_SEATS_PER_BOOKING, refundPctOn } from '../../shared/schemas/trips'
 import { businessDate, nowMs } from './clock'
@@ -9,6 +9,8 @@ import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
+import { holdInOneStatement } from './holdStatement'
+import { claimSeats, ensureSeatCounter, releaseSeats, seatsClaimed } from './seatCounter'
 import { getTripRow, lockTripRow, seatUse, tiersOf, TripConflictError, TripRuleError } from './trips'
 import { alertOrganisers } from './operations/alerts'
 
@@ -37,12 +39,15 @@ export type BookingConfig = MoneyConfig
 /** Marks lapsed holds expired, expires stale waitlist offers, then offers freed seats to the waitlist. */
 export async function releaseLapsed(trx: Db, tripId: number, cfg: BookingConfig): Promise<void> {
   const now = iso()
+  // Conditional updates: a row another transaction let go meanwhile is not returned here, so the
+  // counter gives back exactly the seats this transaction freed.
   const holds = await trx.updateTable('bookings').set({ status: 'expired', updated_at: now })
-    .where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', now).executeTakeFirst()
+    .where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', now).returning('seats').execute()
   const offers = await trx.updateTable('waitlist').set({ status: 'expired' })
-    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '<=', now).executeTakeFirst()
+    .where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '<=', now).returning('seats').execute()
+  await releaseSeats(trx, tripId, [...holds, ...offers].reduce((n, r) => n + r.seats, 0))
   // Nothing lapsed, nothing freed: the waitlist was offered what was free when seats last came back.
-  if (Number(holds.numUpdatedRows) + Number(offers.numUpdatedRows) > 0) await offerWaitlist(trx, tripId, cfg)
+  if (holds.length + offers.length > 0) await offerWaitlist(trx, tripId, cfg)
 }
 
 /** Whether an account may hold seats (and so be offered them): a traveller with a confirmed address. */
@@ -53,8 +58,12 @@ export function mayHoldSeats(u: Pick<User, 'role' | 'email_confirmed_at'>): bool
 /** Offers free seats to the waitlist, first come first served, each offer for a limited time. */
 export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig): Promise<number[]> {
   const trip = await trx.selectFrom('trips').select('seats').where('id', '=', tripId).executeTakeFirstOrThrow()
-  const use = await seatUse(trx as Kysely<Database>, tripId)
-  let free = trip.seats - use.taken - use.offered
+  let claimed = await seatsClaimed(trx, tripId)
+  if (claimed === undefined) {
+    await ensureSeatCounter(trx, tripId)
+    claimed = (await seatsClaimed(trx, tripId))!
+  }
+  let free = trip.seats - claimed
   const offered: number[] = []
   if (free <= 0) return offered
   const waiting = await trx.selectFrom('waitlist').innerJoin('users', 'users.id', 'waitlist.user_id')
@@ -65,7 +74,14 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
     // Seats are offered only to someone who could hold them now: a confirmed address and still a
     // traveller (an account promoted to guide or organiser since joining is skipped, not offered).
     if (!mayHoldSeats(w)) continue
-    await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(nowMs() + cfg.offerHours * 3600_000) }).where('id', '=', w.id).execute()
+    // The offer's seats are handed out like a hold's; the entry changes only if it is still waiting.
+    if (!(await claimSeats(trx, tripId, w.seats))) break
+    const made = await trx.updateTable('waitlist').set({ status: 'offered', offer_expires_at: iso(nowMs() + cfg.offerHours * 3600_000) })
+      .where('id', '=', w.id).where('status', '=', 'waiting').executeTakeFirst()
+    if (!Number(made.numUpdatedRows)) {
+      await releaseSeats(trx, tripId, w.seats)
+      continue
+    }
     await mailWaitlistOffer(trx, w.id, cfg.appUrl)
     free -= w.seats
     offered.push(w.id)
@@ -73,68 +89,91 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
   return offered
 }
 
-/** Holds seats for 15 minutes (or the configured hold), atomically. */
+/**
+ * Holds seats for 15 minutes (or the configured hold). The seats are handed out by the counter's one
+ * conditional statement, issued last in the transaction: no hold waits for another hold's lock.
+ */
 export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
   if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
-  // Sold out already, even before lapsed holds are let go? Then say so without queueing for the trip's
-  // lock (the rush after sales open is mostly these). A seat freed a moment later is a benign race:
-  // the answer is what an instant earlier would have been; no seat is ever handed out here.
-  const pre = await db.selectFrom('trips').select(['seats', 'status', 'sales_open']).where('id', '=', tripId).executeTakeFirst()
-  if (pre && pre.status === 'published' && !pre.sales_open) throw new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
-  if (pre && pre.status === 'published') {
-    const use = await seatUse(db, tripId, iso(), user.id)
-    const lapsed = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', iso()).limit(1).executeTakeFirst()
-    // A traveller who already holds seats here is told so (below), not that the trip is full.
-    const mine = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').limit(1).executeTakeFirst()
-    if (!lapsed && !mine && pre.seats - use.taken - use.offered <= 0) throw new SoldOutError(0)
+  const now = iso()
+  // Everything the hold needs to know before it starts, in one read.
+  const trip = await db.selectFrom('trips').leftJoin('seat_counters', 'seat_counters.trip_id', 'trips.id').selectAll('trips')
+    .select((eb) => [
+      'seat_counters.claimed',
+      eb.exists(eb.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('status', '=', 'held').where('hold_expires_at', '<=', now)).as('lapsedHold'),
+      eb.exists(eb.selectFrom('waitlist').select('id').where('trip_id', '=', tripId).where('status', '=', 'offered').where('offer_expires_at', '<=', now)).as('lapsedOffer'),
+      eb.exists(eb.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held')).as('mine'),
+      eb.selectFrom('waitlist').select((w) => w.fn.coalesce(w.fn.sum<number>('seats'), w.val(0)).as('n'))
+        .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').as('myOffer'),
+    ])
+    .where('trips.id', '=', tripId).executeTakeFirst()
+  if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
+  if (!trip.sales_open) throw new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
+  if (trip.claimed === null) await ensureSeatCounter(db, tripId)
+  if (trip.lapsedHold || trip.lapsedOffer) {
+    // Lapsed holds and offers still count until let go: let them go first (a short transaction of its own).
+    await db.transaction().execute((trx) => releaseLapsed(trx, tripId, cfg))
+  } else if (!trip.mine && trip.claimed !== null && seats > trip.seats - Number(trip.claimed) + Number(trip.myOffer)) {
+    // Sold out: say so at once. A traveller who already holds seats here is told so (below) instead.
+    throw new SoldOutError(Math.max(0, trip.seats - Number(trip.claimed) + Number(trip.myOffer)))
   }
-  // What the held e-mail says about the eclipse seen at the trip's site, worked out before the lock.
-  const kind = pre ? await tripKind(db, await db.selectFrom('trips').select(['eclipse_id', 'primary_site_id']).where('id', '=', tripId).executeTakeFirstOrThrow()) : undefined
-  return holdGate(db, () => db.transaction().execute(async (trx) => {
-    const trip = await lockTripRow(trx, tripId)
-    if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
-    await releaseLapsed(trx, tripId, cfg)
-    const now = iso()
+  // What the held e-mail says about the eclipse seen at the trip's site.
+  const kind = await tripKindSoon(db, trip)
+  if (isPostgres(db) && Number(trip.myOffer) === 0 && !trip.mine) {
+    // PostgreSQL, no offer to take up and no hold here yet: the whole hold is one statement (see
+    // holdInOneStatement). Otherwise the transaction below says which hold exists, or takes up the offer.
+    const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
+    const r = await holdInOneStatement(db, { user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
+    if (r === 'sold_out') throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))
+    if (r === 'hold_exists') {
+      const mine = await db.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').executeTakeFirstOrThrow()
+      throw new HoldExistsError(mine.id, mine.seats)
+    }
+    // The organisers' alert follows at once in a transaction of its own (the statement above holds
+    // the counter, the booking, the audit row and the traveller's e-mail together).
+    await db.transaction().execute((trx) => alertOrganisers(trx, { kind: 'booking', bookingId: r.id }, cfg.appUrl))
+    return { id: r.id, status: 'held' as const, holdExpiresAt }
+  }
+  return db.transaction().execute(async (trx) => {
+    // PostgreSQL: one hold at a time per traveller and trip (two tabs), never across travellers.
+    if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(${tripId}::int, ${user.id}::int)`.execute(trx)
+    // Any hold of this traveller here, lapsed or not (lapsed ones were let go above): bookings_one_hold allows one.
     const mine = await trx.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id)
-      .where('status', '=', 'held').where('hold_expires_at', '>', now).executeTakeFirst()
+      .where('status', '=', 'held').executeTakeFirst()
     if (mine) throw new HoldExistsError(mine.id, mine.seats)
-    const use = await seatUse(trx as unknown as Kysely<Database>, tripId, now, user.id)
-    const available = trip.seats - use.taken - use.offered
-    if (seats > available) throw new SoldOutError(Math.max(0, available))
     const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
     const b = await trx.insertInto('bookings').values({
       trip_id: tripId, user_id: user.id, seats, status: 'held', hold_expires_at: holdExpiresAt,
       price_minor: seats * trip.price_minor, deposit_minor: seats * trip.deposit_minor, currency: trip.currency,
     }).returning('id').executeTakeFirstOrThrow()
-    await trx.updateTable('waitlist').set({ status: 'accepted', booking_id: b.id })
-      .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').execute()
+    // Seats offered to this traveller become the hold's: the counter already has them.
+    const accepted = await trx.updateTable('waitlist').set({ status: 'accepted', booking_id: b.id })
+      .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').returning('seats').execute()
+    const offeredMine = accepted.reduce((n, r) => n + r.seats, 0)
     await audit(trx, { action: 'booking_hold', actorUserId: user.id, detail: { bookingId: b.id, tripId, seats } })
     await mailBookingHeld(trx, b.id, cfg.appUrl, kind ? { kind } : undefined)
     await alertOrganisers(trx, { kind: 'booking', bookingId: b.id }, cfg.appUrl)
+    // Last: from here to the commit is all the time the counter's row is locked.
+    if (!(await claimSeats(trx, tripId, seats - offeredMine, { recount: false }))) {
+      throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(trx, tripId)) ?? 0) + offeredMine))
+    }
     return { id: b.id, status: 'held' as const, holdExpiresAt }
-  }))
+  })
 }
 
 /**
- * At most a few hold transactions of this instance wait on trip locks at once (PostgreSQL): a
- * transaction queued on a row lock keeps a pooled connection, and a rush of them would leave none
- * for everything else (sign-ins, pages, the sold-out answers above). Others queue here, in memory.
- * SQLite runs one transaction at a time anyway.
+ * The kind of eclipse at a trip's site for the held e-mail's wording, remembered for a minute per
+ * eclipse and site (working it out runs the engine; a rush of holds on one trip needs it once).
  */
-const HOLD_SLOTS = Math.max(1, Number(process.env.UMBRAFIELD_HOLD_SLOTS || 3))
-let holdsRunning = 0
-const holdQueue: Array<() => void> = []
-async function holdGate<T>(db: Kysely<Database>, run: () => Promise<T>): Promise<T> {
-  if (!isPostgres(db)) return run()
-  if (holdsRunning >= HOLD_SLOTS) await new Promise<void>((r) => holdQueue.push(r))
-  else holdsRunning++
-  try {
-    return await run()
-  } finally {
-    const next = holdQueue.shift()
-    if (next) next()
-    else holdsRunning--
-  }
+const kindMemo = new Map<string, { kind: Awaited<ReturnType<typeof tripKind>>; at: number }>()
+async function tripKindSoon(db: Kysely<Database>, t: { eclipse_id: string; primary_site_id: number }) {
+  const key = `${t.eclipse_id}:${t.primary_site_id}`
+  const hit = kindMemo.get(key)
+  if (hit && nowMs() - hit.at < 60_000) return hit.kind
+  const kind = await tripKind(db, t)
+  if (kindMemo.size > 500) kindMemo.clear()
+  kindMemo.set(key, { kind, at: nowMs() })
+  return kind
 }
 
 /**
@@ -147,15 +186,17 @@ export async function changeHoldSeats(db: Kysely<Database>, stripe: Stripe | nul
     const ref = await trx.selectFrom('bookings').select(['id', 'trip_id']).where('id', '=', bookingId).where('user_id', '=', user.id).executeTakeFirst()
     if (!ref) throw new NotFoundError('No such booking')
     const trip = (await lockTripRow(trx, ref.trip_id))!
-    // Read after the lock: a payment applied meanwhile is seen here.
-    const b = await trx.selectFrom('bookings').selectAll().where('id', '=', bookingId).executeTakeFirstOrThrow()
+    // Read after the lock: a payment applied meanwhile is seen here. PostgreSQL: the row is locked too,
+    // so a lapse let go meanwhile (which takes no trip lock) waits for this change, or is seen.
+    const bq = trx.selectFrom('bookings').selectAll().where('id', '=', bookingId)
+    const b = await (isPostgres(trx) ? bq.forUpdate() : bq).executeTakeFirstOrThrow()
     if (b.status !== 'held' || !b.hold_expires_at || b.hold_expires_at <= iso()) throw new BookingStateError('Only an active hold can change its seats')
     if (b.paid_minor > 0) throw new BookingStateError('A payment is under way on this hold')
     await expireCheckoutsOrRefuse(trx, stripe, b.id, 'superseded: the seat count changed')
     await releaseLapsed(trx, b.trip_id, cfg)
-    const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), user.id)
-    const available = trip.seats - (use.taken - b.seats) - use.offered
-    if (seats > available) throw new SoldOutError(Math.max(0, available))
+    if (!(await claimSeats(trx, b.trip_id, seats - b.seats))) {
+      throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(trx, b.trip_id)) ?? 0) + b.seats))
+    }
     await trx.updateTable('bookings').set({ seats, price_minor: seats * trip.price_minor, deposit_minor: seats * trip.deposit_minor, updated_at: iso() }).where('id', '=', b.id).execute()
     await audit(trx, { action: 'booking_hold_change', actorUserId: user.id, detail: { bookingId: b.id, from: b.seats, to: seats } })
     return { id: b.id, status: 'held' as const, seats }
@@ -223,8 +264,9 @@ export async function cancelBooking(db: Kysely<Database>, stripe: Stripe | null,
   const refundMinor = await db.transaction().execute(async (trx) => {
     await lockTripRow(trx, b.trip_id)
     const changed = await trx.updateTable('bookings').set({ status: 'cancelled', cancel_reason: `cancelled by ${user.id === b.user_id ? 'the traveller' : 'an organiser'}`, updated_at: iso() })
-      .where('id', '=', b.id).where('status', 'in', ['held', 'confirmed']).executeTakeFirst()
-    if (!changed.numUpdatedRows) throw new BookingStateError('This booking changed meanwhile; reload and try again')
+      .where('id', '=', b.id).where('status', 'in', ['held', 'confirmed']).returning('seats').executeTakeFirst()
+    if (!changed) throw new BookingStateError('This booking changed meanwhile; reload and try again')
+    await releaseSeats(trx, b.trip_id, changed.seats)
     const now = await trx.selectFrom('bookings').select(['id', 'paid_minor']).where('id', '=', b.id).executeTakeFirstOrThrow()
     const amount = Math.round((Math.max(0, await refundableOf(trx, now)) * pct) / 100)
     await requestRefund(trx, b.id, amount, `cancellation, ${pct}% tier`, user.id)

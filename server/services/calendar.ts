@@ -1,5 +1,6 @@
 import { createEvents, type EventAttributes } from 'ics'
 import { phaseWords, safetyParagraph, type LocalKind } from '../../shared/safety/text'
+import { roundedSecondMs } from '../../shared/time/local'
 
 interface ContactLike { utc: string }
 interface SiteLike {
@@ -25,7 +26,7 @@ export function contactEvents(trip: { id: number; title: string; eclipseId: stri
     if (!c) continue
     events.push({
       uid: `umbrafield-trip${trip.id}-site${site.siteId}-${k}@umbrafield`, title: `${words.contact[k]} · ${site.name}`,
-      start: Math.round(Date.parse(c.utc) / 1000) * 1000, startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 },
+      start: roundedSecondMs(c.utc), startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 },
       location: site.name, geo: { lat: site.lat, lon: site.lon }, description: `${trip.title}. ${words.eclipseName} of ${trip.eclipseId}. Local time zone ${site.zone}.\n${footer}`,
     })
   }
@@ -33,7 +34,7 @@ export function contactEvents(trip: { id: number; title: string; eclipseId: stri
     for (const cue of site.cues ?? []) {
       events.push({
         uid: `umbrafield-trip${trip.id}-site${site.siteId}-cue-${cue.key}@umbrafield`, title: `Cue: ${cue.label} [filters ${cue.filters}]`,
-        start: Math.round(Date.parse(cue.utc) / 1000) * 1000, startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 }, location: site.name,
+        start: roundedSecondMs(cue.utc), startInputType: 'utc', startOutputType: 'utc', duration: { minutes: 1 }, location: site.name,
         description: `${trip.title}. Cue at ${site.name}: ${cue.label}. Filters ${cue.filters}.\n${footer}`,
       })
     }

@@ -1,6 +1,6 @@
 import type { Kysely, Selectable } from 'kysely'
 import Papa from 'papaparse'
-import { pClearOf, sampleGrid, type Grid } from '../../shared/climate/grid'
+import { CLOUD_WEIGHTS_DEFAULT, pClearOf, sampleGrid, type CloudWeights, type Grid } from '../../shared/climate/grid'
 import { NO_CLIMATOLOGY, type SiteCloud } from '../../shared/schemas/sites'
 import type { Database, SiteRow, User } from '../database/schema'
 import { audit } from './audit'
@@ -192,7 +192,19 @@ export async function listDatasets(db: Kysely<Database>, user: Pick<User, 'id' |
   }))
 }
 
-export interface MonthGrids { meta: Selectable<Database['climatology_datasets']>; cloud: Grid; clear?: Grid; scattered?: Grid; broken?: Grid }
+export interface MonthGrids { meta: Selectable<Database['climatology_datasets']>; cloud: Grid; clear?: Grid; scattered?: Grid; broken?: Grid; weights?: CloudWeights }
+
+/** The workspace's P(clear) weights (its own, validated when set, or the published ones). */
+export function cloudWeightsOf(ws: Pick<Selectable<Database['workspaces']>, 'cloud_weight_scattered' | 'cloud_weight_broken'>): CloudWeights {
+  return ws.cloud_weight_scattered === null || ws.cloud_weight_broken === null || ws.cloud_weight_scattered === undefined || ws.cloud_weight_broken === undefined
+    ? CLOUD_WEIGHTS_DEFAULT : { scattered: Number(ws.cloud_weight_scattered), broken: Number(ws.cloud_weight_broken) }
+}
+
+/** A workspace's month grids: the shared cached grids with the workspace's weights beside them (the cache is never changed). */
+export async function workspaceGrids(db: Kysely<Database>, ws: Selectable<Database['workspaces']>): Promise<MonthGrids | null> {
+  const g = ws.climatology_id ? await monthGrids(db, ws.climatology_id, eclipseMonth(ws.eclipse_id)) : null
+  return g ? { ...g, weights: cloudWeightsOf(ws) } : null
+}
 
 const gridCache = new Map<string, MonthGrids | null>()
 
@@ -229,7 +241,7 @@ export function pClearSampler(g: MonthGrids): (lat: number, lon: number) => numb
     if (s.value === null) return null
     if (cats) {
       const c = sampleGrid(cats.clear, lat, lonUsed).value, sc = sampleGrid(cats.scattered, lat, lonUsed).value, b = sampleGrid(cats.broken, lat, lonUsed).value
-      if (c !== null && sc !== null && b !== null) return pClearOf(s.value, { clear: c, scattered: sc, broken: b }).pClear
+      if (c !== null && sc !== null && b !== null) return pClearOf(s.value, { clear: c, scattered: sc, broken: b }, g.weights).pClear
     }
     return pClearOf(s.value).pClear
   }
@@ -247,7 +259,7 @@ export function cloudAt(g: MonthGrids, lat: number, lon: number): SiteCloud {
     const c = sampleGrid(g.clear, lat, lonUsed).value, sc = sampleGrid(g.scattered, lat, lonUsed).value, b = sampleGrid(g.broken, lat, lonUsed).value
     if (c !== null && sc !== null && b !== null) cats = { clear: c, scattered: sc, broken: b }
   }
-  const p = pClearOf(s.value, cats)
+  const p = pClearOf(s.value, cats, g.weights)
   return { cloudPct: r1(s.value), pClear: Math.round(p.pClear * 1000) / 1000, pClearMethod: p.method, cloudSource: label, cloudNote: s.method }
 }
 
@@ -266,7 +278,7 @@ export const eclipseMonth = (eclipseId: string) => Number(eclipseId.slice(5, 7))
 
 /** Cloud lookup for a workspace's sites: override first, then the chosen dataset's eclipse month. */
 export async function cloudLookupFor(db: Kysely<Database>, ws: Selectable<Database['workspaces']>): Promise<CloudLookup> {
-  const grids = ws.climatology_id ? await monthGrids(db, ws.climatology_id, eclipseMonth(ws.eclipse_id)) : null
+  const grids = await workspaceGrids(db, ws)
   return (site) => {
     const o = overrideCloud(site)
     if (o) return o

@@ -2,7 +2,7 @@ import type { Kysely } from 'kysely'
 import { sampleGrid } from '../../shared/climate/grid'
 import { cloudColour, CLOUD_RAMP } from '../../shared/climate/ramp'
 import type { Database } from '../database/schema'
-import { cloudAt, eclipseMonth, monthGrids } from './climatology'
+import { cloudAt, eclipseMonth, workspaceGrids } from './climatology'
 import { eclipsePathFor } from './eclipses'
 import { getWorkspace } from './planning'
 
@@ -19,7 +19,7 @@ export async function cloudLayer(db: Kysely<Database>, workspaceId: number) {
   const ws = await getWorkspace(db, workspaceId)
   if (!ws.climatology_id) return null
   const month = eclipseMonth(ws.eclipse_id)
-  const g = await monthGrids(db, ws.climatology_id, month)
+  const g = await workspaceGrids(db, ws)
   if (!g) return { month, demo: false, name: '', cells: { type: 'FeatureCollection', features: [] }, profile: [], legend: CLOUD_RAMP, note: `no data for month ${month}` }
   const path = await eclipsePathFor(db, ws.eclipse_id, { step: 120, wrap: 'split' })
   const centre = path.features.filter((f) => f.properties.kind === 'tick' && f.properties.line === 'centre')

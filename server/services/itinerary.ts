@@ -1,6 +1,6 @@
 import type { Kysely } from 'kysely'
 import type { EventAttributes } from 'ics'
-import { localTime } from '../../shared/time/local'
+import { localAndUtcLine, localTime, utcClock } from '../../shared/time/local'
 import type { Database, User } from '../database/schema'
 import { audit } from './audit'
 import { dueOf } from './dues'
@@ -35,9 +35,9 @@ export async function itineraryMails(db: Kysely<Database>, tripId: number, appUr
       bookingUrl: `${appUrl}/bookings/${b.id}`,
       meeting: { name: trip.meeting_name, local: meet.local, utcOffset: meet.utcOffset, zone: meetZone },
       site: { name: site.name, lat: site.lat, lon: site.lon, mapUrl: `${appUrl}/trips/${trip.id}`, zone: site.zone },
-      contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: site.words.contact[k], local: site.contacts[k]!.local.slice(11), utc: site.contacts[k]!.utc.slice(11, 19) })),
+      contacts: (['c1', 'c2', 'max', 'c3', 'c4'] as const).filter((k) => site.contacts[k]).map((k) => ({ label: site.words.contact[k], local: site.contacts[k]!.local.slice(11), utc: utcClock(site.contacts[k]!.utc) })),
       eclipseKind: site.kind, centralName: site.words.central ? site.words.central[0]!.toUpperCase() + site.words.central.slice(1) : null,
-      durationSec: site.durationSec, timeLine: site.time.line, bring: checklistOf(trip.briefing_checklist), briefingUrl: `${appUrl}/trips/${trip.id}/briefing`,
+      durationSec: site.durationSec, timeLine: localAndUtcLine(site.time.line, site), bring: checklistOf(trip.briefing_checklist), briefingUrl: `${appUrl}/trips/${trip.id}/briefing`,
       organiser: organiser ?? { name: 'Your trip organiser', email: 'trips@umbrafield.test' },
     })
     return { kind: 'itinerary', to: { email: b.uemail, name: b.uname }, bookingId: b.id, tripId, attachments: [{ filename: 'eclipse-itinerary.ics', content: ics, contentType: 'text/calendar; charset=utf-8; method=PUBLISH' }], ...mail }

@@ -10,7 +10,8 @@ import { refundStuckMail } from './mailTemplates'
 import { alertOrganisers } from './operations/alerts'
 import { enqueueMail } from './outbox'
 import { NotFoundError } from './planning'
-import { getTripRow, lockTripRow, seatUse } from './trips'
+import { claimSeats } from './seatCounter'
+import { getTripRow, lockTripRow } from './trips'
 import { nowMs } from './clock'
 
 /**
@@ -205,8 +206,10 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
   if (!won.numUpdatedRows) return { applied: 0, stray: 0 }
   // The trip row lock orders this with holds, cancellations and other payments of the same trip.
   const ref = await trx.selectFrom('bookings').select('trip_id').where('id', '=', p.booking_id).executeTakeFirstOrThrow()
-  const trip = (await lockTripRow(trx, ref.trip_id))!
-  const b = await trx.selectFrom('bookings').selectAll().where('id', '=', p.booking_id).executeTakeFirstOrThrow()
+  await lockTripRow(trx, ref.trip_id)
+  // PostgreSQL: the booking row too, so a lapse let go meanwhile (no trip lock) is seen here or waits.
+  const bq = trx.selectFrom('bookings').selectAll().where('id', '=', p.booking_id)
+  const b = await (isPostgres(trx) ? bq.forUpdate() : bq).executeTakeFirstOrThrow()
   const stray = async (amount: number, why: string) => {
     await requestRefund(trx, b.id, amount, `automatic: ${why}`, null, p.id)
     await audit(trx, { action: 'payment_stray', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: amount, why } })
@@ -218,9 +221,9 @@ export async function completePayment(trx: Transaction<Database>, paymentId: num
     return { applied: 0, stray: p.amount_minor }
   }
   if (p.kind === 'deposit' && (b.status === 'held' || b.status === 'expired')) {
-    const use = await seatUse(trx as unknown as Kysely<Database>, b.trip_id, iso(), b.user_id)
-    const mine = b.status === 'held' && b.hold_expires_at! > iso() ? b.seats : 0
-    if (trip.seats - (use.taken - mine) - use.offered >= b.seats) {
+    // A hold (even one just lapsed, not yet let go) still has its seats on the counter; an expired
+    // booking's seats went back, and are handed out again only if they are still there.
+    if (b.status === 'held' || await claimSeats(trx, b.trip_id, b.seats)) {
       const excess = Math.max(0, b.paid_minor + p.amount_minor - b.price_minor)
       await trx.updateTable('bookings').set({ status: 'confirmed', paid_minor: b.paid_minor + p.amount_minor - excess, hold_expires_at: null, updated_at: iso() }).where('id', '=', b.id).execute()
       await audit(trx, { action: 'booking_confirmed', subjectUserId: b.user_id, detail: { bookingId: b.id, paymentId: p.id, amountMinor: p.amount_minor } })

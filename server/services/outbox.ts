@@ -34,17 +34,22 @@ export class SecretInBodyError extends Error {}
 
 /** Writes a message to the outbox, inside the caller's transaction: it goes out only if the event commits. */
 export async function enqueueMail(db: Db, m: OutgoingMail): Promise<void> {
+  await db.insertInto('outbox').values(outboxValues(m)).onConflict((oc) => oc.column('dedupe_key').doNothing()).execute()
+}
+
+/** The outbox row for a message, checked as enqueueMail checks it (for a caller that writes it within a larger statement). */
+export function outboxValues(m: OutgoingMail) {
   const messageId = `<${randomUUID()}@umbrafield>`
   if (m.secret !== undefined) {
     // Tokens never rest in clear text: the bodies must hold the placeholder, never the token.
     if (m.secret.length < 16 || m.html.includes(m.secret) || m.text.includes(m.secret) || m.subject.includes(m.secret)) throw new SecretInBodyError('A one-time token must not be written into a message body')
     if (!m.text.includes(SECRET_TOKEN)) throw new SecretInBodyError('A message with a one-time token must say where it goes')
   }
-  await db.insertInto('outbox').values({
+  return {
     message_id: messageId, sealed_secret: m.secret !== undefined ? seal(m.secret, secretContext(messageId)) : null, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
     subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: nowIso(),
     last_error: null, booking_id: m.bookingId ?? null, trip_id: m.tripId ?? null, sending_since: null, sent_at: null,
-  }).onConflict((oc) => oc.column('dedupe_key').doNothing()).execute()
+  }
 }
 
 export interface MailConfig { host: string; port: number; secure: boolean; user?: string; pass?: string; from: string }

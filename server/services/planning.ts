@@ -7,7 +7,7 @@ import { localTime } from '../../shared/time/local'
 import type { Database, SiteRow, User } from '../database/schema'
 import { localReport } from '../eclipse/report'
 import { audit } from './audit'
-import { cloudLookupFor } from './climatology'
+import { cloudLookupFor, cloudWeightsOf } from './climatology'
 import { elementsInForce } from './eclipses'
 import { siteHorizon, terrainFor, type Terrain } from './terrain'
 import { nowIso } from './clock'
@@ -153,7 +153,7 @@ export async function importSites(db: Kysely<Database>, user: User, workspaceId:
   })
 }
 
-export async function updateWorkspace(db: Kysely<Database>, user: User, id: number, patch: { name?: string; climatologyId?: number | null }) {
+export async function updateWorkspace(db: Kysely<Database>, user: User, id: number, patch: { name?: string; climatologyId?: number | null; cloudWeights?: { scattered: number; broken: number } | null }) {
   await getWorkspace(db, id)
   if (patch.climatologyId) {
     const d = await db.selectFrom('climatology_datasets').select('id').where('id', '=', patch.climatologyId).executeTakeFirst()
@@ -163,11 +163,15 @@ export async function updateWorkspace(db: Kysely<Database>, user: User, id: numb
     const set: Record<string, unknown> = {}
     if (patch.name !== undefined) set.name = patch.name
     if (patch.climatologyId !== undefined) set.climatology_id = patch.climatologyId
+    if (patch.cloudWeights !== undefined) {
+      set.cloud_weight_scattered = patch.cloudWeights?.scattered ?? null
+      set.cloud_weight_broken = patch.cloudWeights?.broken ?? null
+    }
     if (Object.keys(set).length) await trx.updateTable('workspaces').set(set).where('id', '=', id).execute()
     await audit(trx, { action: 'workspace_update', actorUserId: user.id, detail: { workspaceId: id, ...patch } })
   })
   const w = await getWorkspace(db, id)
-  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, climatologyId: w.climatology_id }
+  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, climatologyId: w.climatology_id, cloudWeights: cloudWeightsOf(w) }
 }
 
 export async function getSite(db: Kysely<Database>, id: number): Promise<SiteRow> {

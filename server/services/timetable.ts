@@ -100,7 +100,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const kind = localKindOf(r.type)
     const planets = contacts.max ? planetsAt(Date.parse(contacts.max.utc), s.lat, s.lon, s.elevation_m) : []
     const plan = planCues(cueInputFor(el, r, trip, offsets, planets))
-    const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(c.utcMs, zone) }))
+    const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(Date.parse(isoTenths(c.utcMs)), zone) }))
     const pClear = cloud(s).pClear
     const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }, { profile: false })
     return {

@@ -1,3 +1,4 @@
+import { localAndUtcLine, utcClock } from '../../shared/time/local'
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
 import { skyDiagram } from '../../shared/briefing/skyDiagram'
@@ -54,12 +55,12 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
       doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
       doc.text(plain(s.words.contact[k]), left + cols[0]!, y)
       doc.text(c.local.slice(11), left + cols[1]!, y)
-      doc.font('ws').text(c.utc.slice(11, 21), left + cols[2]!, y)
+      doc.font('ws').text(utcClock(c.utc), left + cols[2]!, y)
       doc.text(`${c.uncertaintySec.toFixed(1)} s`, left + cols[3]!, y)
       doc.text(`${c.altitudeDeg.toFixed(1)}°`, left + cols[4]!, y)
       doc.text(`${c.azimuthDeg.toFixed(0)}°`, left + cols[5]!, y)
       y += 16
-      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(`contact point ${c.direction} (P ${c.positionAngleDeg?.toFixed(0)}°, V ${c.vertexAngleDeg?.toFixed(0)}°)`, left + cols[1]!, y - 3); y += 10 }
+      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(`contact point ${c.direction} (position angle ${c.positionAngleDeg?.toFixed(0)}° from north, vertex angle ${c.vertexAngleDeg?.toFixed(0)}° from the top)`, left + cols[1]!, y - 3); y += 10 }
     }
     // Sun disc with the C2 and C3 points (vertex angles: measured from the top, counter-clockwise).
     const tableBottom = y
@@ -95,7 +96,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     }
     for (const c of s.cues) {
       doc.font('ws-semi').fontSize(10).fillColor(c.filters === 'off' ? RED : INK).text(c.local.slice(11), left, y, { width: 60 })
-      doc.font('ws').fontSize(8).fillColor(MUTED).text(`UTC ${new Date(Math.round(Date.parse(c.utc) / 1000) * 1000).toISOString().slice(11, 19)}`, left, y + 12, { width: 60 })
+      doc.font('ws').fontSize(8).fillColor(MUTED).text(`UTC ${utcClock(c.utc)}`, left, y + 12, { width: 60 })
       doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(`${c.label}  [filters ${c.filters}]`), left + 70, y, { width: width - 70 })
       y = Math.max(doc.y, y + 22) + 4
     }
@@ -107,7 +108,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     for (const line of s.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
     doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
     doc.font('ws').fontSize(7.5).fillColor(MUTED)
-      .text(plain(`${s.time.line} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
+      .text(plain(`${localAndUtcLine(s.time.line, s)} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
     const b = briefings.find((x) => x.site.id === s.siteId)
     if (b) briefingPage(doc, b)
   }
@@ -132,7 +133,7 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
     room(34)
     const y = doc.y
     doc.font('ws-semi').fontSize(9.5).fillColor(st.filters === 'off' ? RED : INK).text(st.local.slice(11), left, y, { width: 56 })
-    doc.font('ws').fontSize(7).fillColor(MUTED).text(`UTC ${st.utc.slice(11, 19)}`, left, y + 11, { width: 56 })
+    doc.font('ws').fontSize(7).fillColor(MUTED).text(`UTC ${utcClock(st.utc)}`, left, y + 11, { width: 56 })
     doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(`${st.title}  [filters ${st.filters}]${st.commonPractice ? '  (guides\' experience)' : ''}`), left + 62, y, { width: width - 62 })
     doc.font('ws').fontSize(8.5).fillColor(INK).text(plain(st.text), left + 62, doc.y + 1, { width: width - 62 })
     doc.y = Math.max(doc.y, y + 22) + 3

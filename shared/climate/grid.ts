@@ -61,16 +61,30 @@ export function sampleGrid(g: Grid, lat: number, lon: number): Sample {
   return best === null ? { value: null, method: 'no data nearby' } : { value: best, method: 'nearest valid cell' }
 }
 
+/** Weights of the scattered and broken sky categories in P(clear) (clear counts 1, overcast 0). */
+export interface CloudWeights { scattered: number; broken: number }
 /**
- * Chance of a clear enough sky. With cloud categories, the sky-category weighting used in NASA's
- * eclipse bulletins' weather tables (common practice):
- * (% clear + 0.72 × % scattered + 0.225 × % broken) / 100. Otherwise the simpler estimate
- * 1 − mean cloud fraction.
+ * The published weights: the weather-prospects tables of the NASA eclipse bulletins weigh the
+ * frequency of clear skies 1, scattered cloud 0.72 and broken cloud 0.225. A workspace may set its own.
  */
-export function pClearOf(cloudPct: number, categories?: { clear: number; scattered: number; broken: number }): { pClear: number; method: string } {
+export const CLOUD_WEIGHTS_DEFAULT: CloudWeights = { scattered: 0.72, broken: 0.225 }
+export const CLOUD_WEIGHTS_SOURCE = 'the weather-prospects tables of the NASA eclipse bulletins'
+
+/** The weighting in words, with where its weights come from (shown wherever P(clear) is). */
+export function cloudWeightingText(w: CloudWeights = CLOUD_WEIGHTS_DEFAULT): string {
+  const published = w.scattered === CLOUD_WEIGHTS_DEFAULT.scattered && w.broken === CLOUD_WEIGHTS_DEFAULT.broken
+  return `clear + ${w.scattered} × scattered + ${w.broken} × broken (${published ? `weights from ${CLOUD_WEIGHTS_SOURCE}` : `this workspace's weights; the published ones, from ${CLOUD_WEIGHTS_SOURCE}, are ${CLOUD_WEIGHTS_DEFAULT.scattered} and ${CLOUD_WEIGHTS_DEFAULT.broken}`})`
+}
+
+/**
+ * Chance of a clear enough sky. With cloud categories, the sky-category weighting
+ * (% clear + w_s × % scattered + w_b × % broken) / 100, by default with the published weights
+ * above. Otherwise the simpler estimate 1 − mean cloud fraction.
+ */
+export function pClearOf(cloudPct: number, categories?: { clear: number; scattered: number; broken: number }, weights: CloudWeights = CLOUD_WEIGHTS_DEFAULT): { pClear: number; method: string } {
   if (categories) {
-    const p = (categories.clear + 0.72 * categories.scattered + 0.225 * categories.broken) / 100
-    return { pClear: Math.min(1, Math.max(0, p)), method: 'sky-category weighting: clear + 0.72 × scattered + 0.225 × broken' }
+    const p = (categories.clear + weights.scattered * categories.scattered + weights.broken * categories.broken) / 100
+    return { pClear: Math.min(1, Math.max(0, p)), method: `sky-category weighting: ${cloudWeightingText(weights)}` }
   }
   return { pClear: Math.min(1, Math.max(0, 1 - cloudPct / 100)), method: 'simpler estimate: 1 − mean cloud fraction' }
 }

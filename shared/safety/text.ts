@@ -43,14 +43,17 @@ export function localKindOf(type: string): LocalKind {
   return type === 'total' ? 'total' : type === 'annular' ? 'annular' : 'partial'
 }
 
+// Umbrafield's own wording. What it must keep: ISO 12312-2 viewers for looking straight at the Sun,
+// solar filters over the front of any optics, never the naked eye on a partial or annular phase,
+// and local rules and qualified advice come first.
 const COMMON_BEFORE = [
-  'Look at the Sun directly only through eclipse viewers (glasses or hand-held viewers) that meet ISO 12312-2.',
-  'Binoculars, cameras and telescopes need a purpose-made solar filter fitted securely on the front of the optics — never eclipse glasses behind them.',
-  'Inspect every viewer and filter before use; discard any that is scratched, punctured, torn or loose.',
-  'Supervise children at all times.',
-  'An annular or partial phase is never safe to look at with the naked eye.',
+  'Any direct look at the Sun goes through an ISO 12312-2 eclipse viewer (card glasses or a hand-held viewer).',
+  'Optics gather sunlight: a lens, binocular or telescope gets a proper solar filter over its front end, held on firmly, and a viewer worn behind the eyepiece protects nothing.',
+  'Hold each viewer and filter up to the light before the day starts; one with a hole, a scratch or a loose fit is set aside, not used.',
+  'Young observers stay within an adult\'s reach, with the viewer on, whenever they look up.',
+  'Never watch an annular or partial phase with the naked eye: the uncovered part of the Sun can still burn the retina.',
 ]
-const FINAL = 'Follow local rules and qualified advice.'
+const FINAL = 'Local rules and qualified advice come first.'
 
 /**
  * The safety lines for a kind of local eclipse; without a kind, the general wording.

@@ -40,6 +40,14 @@ export const WorkspaceCreate = z.object({
 export const WorkspacePatch = z.object({
   name: z.string({ error: 'The name must be text' }).trim().min(1, 'Give the workspace a name').max(120, 'The name is too long (at most 120 characters)').regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
   climatologyId: z.number({ error: 'Choose a climatology, or none' }).int('Choose a climatology, or none').positive('Choose a climatology, or none').nullable().optional(),
+  /**
+   * P(clear) weights of the scattered and broken sky categories, or null for the published ones.
+   * Clear counts 1 and overcast 0, so 1 ≥ scattered ≥ broken ≥ 0.
+   */
+  cloudWeights: z.object({
+    scattered: z.number({ error: 'The scattered-cloud weight must be a number' }).min(0, 'The scattered-cloud weight must be 0 to 1').max(1, 'The scattered-cloud weight must be 0 to 1'),
+    broken: z.number({ error: 'The broken-cloud weight must be a number' }).min(0, 'The broken-cloud weight must be 0 to 1').max(1, 'The broken-cloud weight must be 0 to 1'),
+  }, { error: 'Give both cloud weights, scattered and broken' }).refine((w) => w.broken <= w.scattered, { message: 'Broken cloud cannot weigh more than scattered cloud', path: ['broken'] }).nullable().optional(),
 })
 
 /**

@@ -66,10 +66,14 @@ describe('itinerary and booking e-mail', () => {
     expect(mail.text).toContain(c2.local.slice(11)) // local C2 time, to the second
     expect(mail.html).toContain(c2.local.slice(11))
     expect(mail.text).toContain('ISO 12312-2')
-    expect(mail.text).toContain('Follow local rules and qualified advice.')
+    expect(mail.text).toContain('Local rules and qualified advice come first.')
     expect(mail.text).toContain('C2 — totality begins')
     // The time basis is stated: clock times in UTC, with TT − UTC and UT1 − UTC.
-    expect(mail.text).toMatch(/Times are UTC\. TT − UTC = 69\.184 s.*UT1 − UTC/)
+    // The line under the contact times says which column is local and which UTC (never "Times are UTC" alone).
+    expect(mail.text).toMatch(/Local times are the site's clock, [^;]+; the UTC column is UTC;.*TT − UTC = 69\.184 s.*UT1 − UTC/)
+    expect(mail.text).not.toMatch(/Times are UTC/)
+    // C2 in UTC is the same second as the local C2 beside it: rounded, not cut off.
+    expect(mail.text).toContain(`(${new Date(Math.round(Date.parse(c2.utc) / 1000) * 1000).toISOString().slice(11, 19)} UTC)`)
     expect(mail.messageId).toMatch(/@umbrafield>?$/)
     const ics = mail.attachments.find((a) => a.contentType.startsWith('text/calendar'))!
     const comps = parseIcs(ics.content.toString('utf8'))

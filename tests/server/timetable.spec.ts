@@ -132,7 +132,7 @@ describe('contact timetable', () => {
     expect(descriptions).toHaveLength(5 + s.cues.length)
     for (const d of descriptions) {
       expect(d).toContain('ISO 12312-2')
-      expect(d).toContain('Follow local rules and qualified advice.')
+      expect(d).toContain('Local rules and qualified advice come first.')
       expect(d).toContain('TT − UTC = 69.184 s')
     }
   })

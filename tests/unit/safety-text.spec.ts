@@ -10,12 +10,12 @@ describe('the safety text', () => {
   it.each([undefined, 'total', 'annular', 'partial'] as const)('covers every point (%s)', (kind) => {
     const t = safetyLines(kind).join(' ')
     expect(t).toMatch(/ISO 12312-2/)
-    expect(t).toMatch(/directly/)
-    expect(t).toMatch(/solar filter fitted securely on the front of the optics/)
-    expect(t).toMatch(/Inspect every viewer and filter/)
-    expect(t).toMatch(/Supervise children/)
-    expect(t).toMatch(/annular or partial phase is never safe .* naked eye/)
-    expect(t).toMatch(/Follow local rules and qualified advice\.$/)
+    expect(t).toMatch(/direct look at the Sun/)
+    expect(t).toMatch(/solar filter over its front end/)
+    expect(t).toMatch(/each viewer and filter/)
+    expect(t).toMatch(/Young observers/)
+    expect(t).toMatch(/Never watch an annular or partial phase with the naked eye/)
+    expect(t).toMatch(/Local rules and qualified advice come first\.$/)
     // ISO 12312-2 is named for viewers only, never as the standard for filters on optics.
     expect(t).not.toMatch(/ISO 12312-2[^.]*filters/)
   })

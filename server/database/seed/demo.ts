@@ -214,7 +214,7 @@ async function seedDemoTrip(db: Kysely<Database>) {
     const guide = await trx.selectFrom('users').select('id').where('email', '=', 'guide@umbrafield.test').executeTakeFirstOrThrow()
     const trip = await trx.insertInto('trips').values({
       workspace_id: ws.id, eclipse_id: DEMO_WORKSPACE.eclipseId, primary_site_id: luxor.id, title: DEMO_TRIP_TITLE,
-      description: 'Demo trip by the invented company Kestrel Sky Journeys: six nights on the Nile at Luxor, with the longest totality of the century on 2 August 2027 on the West Bank. Prices and terms are invented.',
+      description: 'Demo trip by the invented company Kestrel Sky Journeys: six nights on the Nile at Luxor, with over six minutes of totality on 2 August 2027 on the West Bank. Prices and terms are invented.',
       start_date: '2027-07-30', end_date: '2027-08-05', meeting_name: 'Hotel forecourt, Corniche el-Nil, Luxor (demo)',
       meeting_lat: 25.6989, meeting_lon: 32.6394, meeting_time_utc: '2027-08-02T03:30:00.000Z', seats: 24,
       price_minor: 249_000, deposit_minor: 50_000, currency: 'eur', balance_due_date: '2027-05-01',

@@ -1,3 +1,4 @@
+import { releaseSeats } from '../seatCounter'
 import { sql, type ExpressionBuilder, type Kysely } from 'kysely'
 import type Stripe from 'stripe'
 import { isPostgres } from '../../database/dialect'
@@ -100,8 +101,11 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     const bookingIds = (await trx.selectFrom('bookings').select('id').where('user_id', '=', user.id).execute()).map((b) => b.id)
     const some = bookingIds.length ? bookingIds : [-1]
     const participants = await trx.updateTable('participants').set(blankParticipant(now)).where('booking_id', 'in', some).executeTakeFirst()
+    // Seats offered to them go back to the trip's counter (they count there until taken up or lapsed).
+    const offered = await trx.selectFrom('waitlist').select(['trip_id', 'seats']).where('user_id', '=', user.id).where('status', '=', 'offered').execute()
     const waitlist = await trx.updateTable('waitlist').set({ status: 'cancelled' })
       .where('user_id', '=', user.id).where('status', 'in', ['waiting', 'offered']).executeTakeFirst()
+    for (const o of offered) await releaseSeats(trx, o.trip_id, o.seats)
     // Mail to them; mail to staff about their booking is the staff's record and stays.
     const mine = (eb: ExpressionBuilder<Database, 'outbox'>) => eb('to_email', '=', current.email)
     // A message not yet sent is given up: it would carry their name and address out after erasure.

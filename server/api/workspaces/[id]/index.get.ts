@@ -1,6 +1,7 @@
 import { IdParams } from '#shared/schemas/auth'
 import { getWorkspace, assertWorkspaceAccess } from '../../../services/planning'
 import { climatologyCoverage } from '../../../services/planningDetails'
+import { cloudWeightsOf } from '../../../services/climatology'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'organiser', 'guide')
@@ -8,5 +9,5 @@ export default defineEventHandler(async (event) => {
   await withServiceErrors(() => assertWorkspaceAccess(useDb(), user, id))
   const w = await withServiceErrors(() => getWorkspace(useDb(), id))
   const coverage = await climatologyCoverage(useDb(), w)
-  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at, climatologyId: w.climatology_id, coverage }
+  return { id: w.id, eclipseId: w.eclipse_id, name: w.name, createdAt: w.created_at, climatologyId: w.climatology_id, coverage, cloudWeights: cloudWeightsOf(w) }
 })
