@@ -11,8 +11,8 @@ export const OutlookSiteParams = z.object({
  * drive time from the meeting point: whole minutes, or null to use the estimate from the distance.
  */
 export const OutlookSiteBody = z.object({
-  driveMinutes: z.number({ error: 'driveMinutes must be a whole number of minutes or null' })
-    .int('driveMinutes must be a whole number of minutes').min(0, 'driveMinutes cannot be negative').max(48 * 60, 'driveMinutes is at most 2880 (two days)')
+  driveMinutes: z.number({ error: 'Give the drive time in whole minutes, or leave it empty for the estimate' })
+    .int('Give the drive time in whole minutes').min(0, 'The drive time cannot be negative').max(48 * 60, 'The drive time is at most two days (2,880 minutes)')
     .nullable().default(null),
 })
 export type OutlookSiteInput = z.infer<typeof OutlookSiteBody>

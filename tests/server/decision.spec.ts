@@ -77,7 +77,10 @@ describe(`the day's decision (${TEST_DB})`, () => {
     expect((await decide({ siteId: fx.primary, departAt: fx.departAt }, fx.other)).status).toBe(403)
     expect((await board(fx.trav)).status).toBe(403)
     expect((await board(fx.booked)).status).toBe(403)
-    expect((await board(fx.other)).status).toBe(404)
+    // A guide of another trip is told plainly they are not assigned to this one.
+    const other = await board(fx.other)
+    expect(other.status).toBe(403)
+    expect(other.body.data.code).toBe('not_assigned')
     const g = await board(fx.guide)
     expect(g.status).toBe(200)
     expect(g.body.current).toBeNull()

@@ -9,7 +9,7 @@ import { openDatabase } from '../../server/database/connection'
 import { DEMO_TRIP_TITLE } from '../../server/database/seed/demo'
 import { sealParticipantField, unsealParticipantField } from '../../server/services/people/participantSeal'
 import { sealedKeyId } from '../../server/services/sealed'
-import { SEALED_COLUMNS } from '../../server/services/personalData/sealedColumns'
+import { SEALED_COLUMNS, SEALED_SETTINGS } from '../../server/services/personalData/sealedColumns'
 import {
   advanceClock, api, inviteAndChoosePassword, ORGANISER, signIn, STRIPE_FAKE, TEST_DATA_KEY, TEST_DATA_KEY_ID, TEST_DB, TRAVELLER, TRAVELLER2, until, useApp,
 } from './app'
@@ -41,6 +41,8 @@ function details(tag: string): Details {
 }
 
 async function addParticipant(bookingId: number, seat: number, d: Details) {
+  // The demo seed gives some bookings invented participants: this test's own details replace them.
+  await db.deleteFrom('participants').where('booking_id', '=', bookingId).where('seat', '=', seat).execute()
   await db.insertInto('participants').values({
     booking_id: bookingId, seat, full_name: d.fullName, nationality: 'GB', passport_expiry: '2031-01-31', emergency_name: `Contact of ${d.fullName}`, emergency_relation: 'sister',
     date_of_birth_sealed: sealParticipantField(bookingId, seat, 'dateOfBirth', d.dob),
@@ -289,6 +291,12 @@ describe(`personal data (${TEST_DB})`, () => {
       for (const c of columns) {
         const rows = await (db as any).selectFrom(c.table).select([c.column, c.key]).where(c.column, 'is not', null).orderBy(c.key).execute()
         for (const r of rows) out.push({ where: `${c.table}.${c.column}#${r[c.key]}`, value: r[c.column] })
+      }
+      // Sealed values inside app settings (the web-push key, once made).
+      for (const st of SEALED_SETTINGS) {
+        const row = await db.selectFrom('app_settings').select('value').where('key', '=', st.key).executeTakeFirst()
+        const v = row ? (JSON.parse(row.value) as Record<string, unknown>)[st.field] : undefined
+        if (typeof v === 'string') out.push({ where: `app_settings.${st.key}`, value: v })
       }
       return out
     }

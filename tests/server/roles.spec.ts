@@ -102,6 +102,8 @@ const PUBLIC = (s: number): Want => [s, s, s, s, s, s]
 const USER = (s: number): Want => [401, s, s, s, s, s]
 const GUIDES = (s: number): Want => [401, 403, 403, s, s, s]
 const STAFF = (s: number): Want => [401, 403, 403, s, 404, s]
+/** A trip's staff routes: a guide not assigned to the trip gets 403 not_assigned, not a 404. */
+const TRIP_STAFF = (s: number): Want => [401, 403, 403, s, 403, s]
 const ORGANISER_ONLY = (s: number): Want => [401, 403, 403, 403, 403, s]
 
 const ROWS: Row[] = [
@@ -237,14 +239,14 @@ const ROWS: Row[] = [
   // (end of block)
 
   // ── Forecast outlook ──
-  { method: 'GET', file: 'trips/[id]/outlook/index.get', path: () => `/api/trips/${fx.luxorTrip}/outlook`, want: STAFF(409), note: 'the suite runs months before the eclipse: 409 too_early (the trip\'s guides and organisers get that far)' },
+  { method: 'GET', file: 'trips/[id]/outlook/index.get', path: () => `/api/trips/${fx.luxorTrip}/outlook`, want: TRIP_STAFF(409), note: 'the suite runs months before the eclipse: 409 too_early (the trip\'s guides and organisers get that far)' },
   { method: 'POST', file: 'trips/[id]/outlook/refresh.post', path: () => `/api/trips/${fx.luxorTrip}/outlook/refresh`, body: json({}), want: ORGANISER_ONLY(409), note: 'too early to fetch, as above' },
   { method: 'PUT', file: 'trips/[id]/outlook/sites/[siteId].put', path: () => `/api/trips/${fx.luxorTrip}/outlook/sites/${fx.luxorSite}`, body: json({ driveMinutes: 20 }), want: ORGANISER_ONLY(200) },
   { method: 'DELETE', file: 'trips/[id]/outlook/sites/[siteId].delete', path: () => `/api/trips/${fx.luxorTrip}/outlook/sites/${fx.luxorSite}`, want: ORGANISER_ONLY(200), note: 'idempotent: removing nothing is fine' },
   // (end of block)
 
   // ── The day's decision and acknowledgements ──
-  { method: 'GET', file: 'trips/[id]/decision.get', path: () => `/api/trips/${fx.luxorTrip}/decision`, want: STAFF(200), note: 'organisers and the trip\'s guides' },
+  { method: 'GET', file: 'trips/[id]/decision.get', path: () => `/api/trips/${fx.luxorTrip}/decision`, want: TRIP_STAFF(200), note: 'organisers and the trip\'s guides' },
   { method: 'POST', file: 'trips/[id]/decision.post', path: () => `/api/trips/${fx.luxorTrip}/decision`, body: () => ({ siteId: fx.luxorSite, departAt: '2027-08-02T05:00:00+03:00' }), want: ORGANISER_ONLY(201) },
   { method: 'POST', file: 'trips/[id]/decision/resend.post', path: () => `/api/trips/${fx.luxorTrip}/decision/resend`, body: json({}), want: ORGANISER_ONLY(200), note: 'after the decision row: sends again to whoever has not acknowledged' },
   { method: 'GET', file: 'ack/[token].get', path: () => '/api/ack/roles-matrix-unknown-token-000000000', want: PUBLIC(404), note: 'no sign-in; an unknown link' },

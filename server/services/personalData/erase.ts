@@ -97,7 +97,7 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     if (nowActive.length) throw new ActiveBookingError(nowActive)
 
     const now = nowIso()
-    const current = await trx.selectFrom('users').select(['email', 'role']).where('id', '=', user.id).executeTakeFirstOrThrow()
+    const current = await trx.selectFrom('users').select(['email', 'role', 'name']).where('id', '=', user.id).executeTakeFirstOrThrow()
     const bookingIds = (await trx.selectFrom('bookings').select('id').where('user_id', '=', user.id).execute()).map((b) => b.id)
     const some = bookingIds.length ? bookingIds : [-1]
     const participants = await trx.updateTable('participants').set(blankParticipant(now)).where('booking_id', 'in', some).executeTakeFirst()
@@ -114,6 +114,16 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     const emails = await trx.updateTable('outbox')
       .set({ to_email: erasedEmail(user.id), to_name: '', subject: ERASED_BODY, html: ERASED_BODY, text: ERASED_BODY, attachments: '[]', sealed_secret: null })
       .where(mine).executeTakeFirst()
+    // Staff copies about their bookings (organisers' alerts and digests) keep the event, not the person:
+    // their name and address are replaced in the mail and in the in-app alerts.
+    const scrub = (col: string) => sql<string>`replace(replace(${sql.ref(col)}, ${current.email}, ${ERASED_NAME}), ${current.name}, ${ERASED_NAME})`
+    const aboutThem = (eb: ExpressionBuilder<Database, 'outbox'>) => eb.or([
+      eb('booking_id', 'in', some),
+      eb('text', 'like', `%${current.email.replace(/[%_\\]/g, '_')}%`),
+    ])
+    await trx.updateTable('outbox').set({ subject: scrub('subject'), text: scrub('text'), html: scrub('html') })
+      .where('to_email', '!=', erasedEmail(user.id)).where(aboutThem).execute()
+    await trx.updateTable('organiser_alerts').set({ summary: scrub('summary') }).where('booking_id', 'in', some).execute()
     // Audit details that name the address (failed sign-ins, reset requests) keep the event, not the address.
     await trx.updateTable('audit_log').set((eb) => ({ detail: eb.fn<string>('replace', ['detail', sql.val(JSON.stringify(current.email)), sql.val('"[erased]"')]) }))
       // (LIKE's wildcards in the address match any character there: a wider net; replace() is exact.)
