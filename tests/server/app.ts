@@ -148,13 +148,15 @@ export interface CaughtMail { id: string; subject: string; text: string; html: s
 
 /**
  * The newest mail to `to` whose subject matches, read from the mail catcher's REST API (waits for
- * the app's mail worker; throws when none comes). `ignore`: ids of mail already read.
+ * the app's mail worker; throws when none comes). `ignore`: ids of mail already read; `containing`: text
+ * the mail must hold (e.g. this app's own URL: every test file's app shares the one mail catcher).
  */
-export async function caughtMail(to: string, subject: RegExp, opts: { ms?: number; ignore?: string[] } = {}): Promise<CaughtMail> {
+export async function caughtMail(to: string, subject: RegExp, opts: { ms?: number; ignore?: string[]; containing?: string } = {}): Promise<CaughtMail> {
   const end = Date.now() + (opts.ms ?? 45_000)
   for (;;) {
     const list = await caughtList()
-    const hit = list.filter((m) => m.to.some((t) => t.address === to) && subject.test(m.subject) && !opts.ignore?.includes(m.id)).at(-1)
+    const hit = list.filter((m) => m.to.some((t) => t.address === to) && subject.test(m.subject) && !opts.ignore?.includes(m.id)
+      && (opts.containing === undefined || m.text.includes(opts.containing))).at(-1)
     if (hit) return hit
     if (Date.now() > end) throw new Error(`no mail "${subject}" to ${to} reached the mail catcher`)
     await new Promise((r) => setTimeout(r, 200))
