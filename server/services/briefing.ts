@@ -20,10 +20,11 @@ import { nowIso } from './clock'
  */
 export async function assertBriefingAccess(db: Kysely<Database>, user: User, tripId: number) {
   const trip = await getTripRow(db, tripId)
-  if (await assertStaffReach(db, user, trip)) return trip
   const booked = await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', user.id)
     .where('status', '=', 'confirmed').executeTakeFirst()
+  // A confirmed seat opens the briefing whatever the account's role (a guide of other trips may travel on this one).
   if (trip.status === 'published' && booked) return trip
+  if (await assertStaffReach(db, user, trip)) return trip
   throw new NotFoundError('No such trip')
 }
 
