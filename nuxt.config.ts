@@ -1,10 +1,23 @@
+import { LOCALES, LOCALE_FILES } from './shared/i18n/locales'
+
 // Umbrafield — Nuxt configuration. Everything is served from this machine: no CDN, fonts ship with the app.
 export default defineNuxtConfig({
   compatibilityDate: '2025-07-15',
   srcDir: '.',
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', '@nuxtjs/i18n'],
+  // Travellers read Umbrafield in their own language. URLs stay the same in every language: a
+  // signed-in account's `locale` decides, otherwise the language cookie (the header's switcher),
+  // otherwise the browser's Accept-Language.
+  i18n: {
+    locales: LOCALES.map(l => ({ code: l.code, language: l.language, name: l.name, files: LOCALE_FILES.map(f => `${l.code}/${f}`) })),
+    defaultLocale: 'en',
+    strategy: 'no_prefix',
+    langDir: 'locales',
+    vueI18n: 'i18n.config.ts',
+    detectBrowserLanguage: { useCookie: true, cookieKey: 'umbrafield_locale', cookieSecure: false, redirectOn: 'no prefix', fallbackLocale: 'en', alwaysRedirect: false },
+  },
   eslint: { config: { stylistic: false } },
   css: [
     '@fontsource/work-sans/400.css',

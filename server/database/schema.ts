@@ -28,6 +28,8 @@ export interface UsersTable {
   session_version: Auto<number>
   /** When the owner had the account's personal data erased (UTC ISO; migration 0021); null otherwise. */
   erased_at: ColumnType<string | null, string | null | undefined, string | null>
+  /** The account's language, one of LOCALE_CODES in shared/i18n/locales.ts (migration 0023). */
+  locale: Auto<string>
 }
 
 export interface AuditLogTable {

@@ -1,6 +1,13 @@
 import type { Kysely } from 'kysely'
 
-// Reserved: filled in by the work it is named after.
-export async function up(_db: Kysely<unknown>): Promise<void> {}
+/**
+ * The language each account reads Umbrafield and its e-mails in: a BCP 47 tag from the supported
+ * set (shared/i18n/locales.ts). Existing accounts read English, as before.
+ */
+export async function up(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('users').addColumn('locale', 'text', col => col.notNull().defaultTo('en')).execute()
+}
 
-export async function down(_db: Kysely<unknown>): Promise<void> {}
+export async function down(db: Kysely<unknown>): Promise<void> {
+  await db.schema.alterTable('users').dropColumn('locale').execute()
+}
