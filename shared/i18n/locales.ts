@@ -17,7 +17,7 @@ export const LOCALE_CODES = LOCALES.map(l => l.code) as [LocaleCode, ...LocaleCo
 export const DEFAULT_LOCALE: LocaleCode = 'en'
 
 /** The message files of each locale, under i18n/locales/<code>/; together they hold every key. */
-export const LOCALE_FILES = ['app.json', 'mail.json', 'doc.json', 'safety.json'] as const
+export const LOCALE_FILES = ['app.json', 'mail.json', 'doc.json', 'safety.json', 'trip.json'] as const
 
 export function isLocale(value: unknown): value is LocaleCode {
   return typeof value === 'string' && (LOCALE_CODES as readonly string[]).includes(value)
