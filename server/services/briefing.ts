@@ -7,7 +7,7 @@ import { DEFAULT_CHECKLIST } from '../../shared/schemas/trips'
 import type { Database, User } from '../database/schema'
 import { elementsInForce } from './eclipses'
 import { skyAt } from '../eclipse/sky'
-import { localReport } from '../eclipse/report'
+import { clockDirection, localReport } from '../eclipse/report'
 import { audit } from './audit'
 import { NotFoundError, siteWithMetrics } from './planning'
 import { cueInputFor, timetable, type Timetable } from './timetable'
@@ -69,6 +69,11 @@ export async function briefing(db: Kysely<Database>, tripId: number, siteId?: nu
     decision: tt.decision,
     kind: site.kind, words: site.words, durationSec: site.durationSec, magnitude: site.magnitude,
     steps: seq.steps, notice: seq.notice,
+    /** What the step texts are built from, for pages that say them in another language: each contact's clock position on the Sun's disc and the shadow's compass direction (English words, as the cue rule has them). */
+    stepFacts: {
+      clock: Object.fromEntries((['c1', 'c2', 'c3'] as const).flatMap((k) => { const v = site.contacts[k]?.vertexAngleDeg; return v === undefined || !site.contacts[k]?.direction ? [] : [[k, clockDirection(v).clock]] })) as Partial<Record<'c1' | 'c2' | 'c3', number>>,
+      shadowFrom: cueInput.shadowFrom ?? null,
+    },
     sky: {
       sun,
       objects: seq.visible.map((o) => ({ ...o, altitudeDeg: Math.round(o.altitudeDeg), azimuthDeg: Math.round(o.azimuthDeg), direction: compassWords(o.azimuthDeg) })),
