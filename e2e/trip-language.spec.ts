@@ -1,0 +1,79 @@
+import type { BrowserContext } from '@playwright/test'
+import { expect, gotoHydrated, hydrated, signInAs, test } from './fixtures'
+
+/** Chooses the page language the way the header's switcher leaves it: the language cookie. */
+async function speak(context: BrowserContext, baseURL: string, code: 'en' | 'de' | 'es' | 'fr') {
+  await context.addCookies([{ name: 'umbrafield_locale', value: code, url: baseURL }])
+}
+
+test('a German traveller reads the briefing, the trip page and the booking in German', async ({ page, context, baseURL }) => {
+  await signInAs(page, 'traveller2@umbrafield.test')
+  await speak(context, baseURL!, 'en')
+  await gotoHydrated(page, '/trips/1/briefing')
+  await expect(page.getByRole('region', { name: 'What you will see, and when' })).toBeVisible()
+
+  // The traveller switches to German: the same page now speaks German.
+  await speak(context, baseURL!, 'de')
+  await page.reload()
+  await hydrated(page)
+  const seq = page.getByRole('region', { name: 'Was Sie sehen werden und wann' })
+  await expect(seq).toBeVisible()
+  await expect(seq.locator('[data-step="beads"]')).toContainText('Perlschnurphänomen und Diamantring')
+  await expect(seq.locator('[data-step="filters-off"]')).toContainText('Filter ab')
+  await expect(seq.locator('[data-step="partial-begins"]')).toContainText('Finsternisbrille')
+  await expect(seq).not.toContainText('Watch through your eclipse viewer')
+  // The eclipse's date as German writes it ("2. August 2027"), not 2027-08-02.
+  await expect(page.getByText(/Ihr Briefing · Finsternis vom \d{1,2}\. [A-ZÄÖÜ][a-zäöü]+ \d{4}/)).toBeVisible()
+  // Contact labels in German, with the trade's C1–C4.
+  const sky = page.getByRole('region', { name: 'Wohin Sie schauen' })
+  await expect(sky).toContainText('C2 – Beginn der Totalität')
+  await expect(sky).toContainText('C3 – Ende der Totalität')
+  await expect(page.getByRole('img', { name: /Himmel mit Blick zur Sonne: C2 in \d+° Höhe/ })).toBeVisible()
+  await expect(page.getByRole('region', { name: 'Welche Korona zu erwarten ist' })).toContainText('keine Vorhersage')
+  await expect(page.getByRole('region', { name: 'Was Sie mitbringen sollten' })).toContainText('ISO 12312-2')
+  // Clock times keep their zone labels; UTC stays UTC.
+  await expect(seq.getByText(/^\d{2}:\d{2}:\d{2} UTC$/).first()).toBeVisible()
+
+  // The trip page: headings, the contact table and the booking box in German.
+  await gotoHydrated(page, '/trips/1')
+  await expect(page.getByRole('heading', { name: /^In Luxor West Bank/ })).toBeVisible()
+  await expect(page.getByRole('columnheader', { name: 'Kontakt' })).toBeVisible()
+  await expect(page.getByRole('columnheader', { name: /^Ortszeit/ })).toBeVisible()
+  await expect(page.getByRole('cell', { name: 'C2 – Beginn der Totalität' })).toBeVisible()
+  await expect(page.getByRole('heading', { name: 'Treffpunkt' })).toBeVisible()
+  await expect(page.getByText(/Totale Sonnenfinsternis vom \d{1,2}\. August 2027/)).toBeVisible()
+  await expect(page.getByText('pro Platz').first()).toBeVisible()
+  await expect(page.getByText('Bei Stornierung')).toBeVisible()
+
+  // The booking: German labels, money written the German way (1.234,56 €).
+  await page.getByRole('link', { name: 'Ihre Buchung' }).click()
+  await expect(page).toHaveURL(/\/bookings\/\d+/)
+  await hydrated(page)
+  await expect(page.getByRole('heading', { name: 'Reisende dieser Buchung' })).toBeVisible()
+  await expect(page.getByRole('heading', { name: 'Zahlungsübersicht' })).toBeVisible()
+  await expect(page.getByText('Bezahlt', { exact: true })).toBeVisible()
+  await expect(page.getByTestId('paid')).toHaveText(/^\d{1,3}(\.\d{3})*,\d{2}\s€$/)
+  await expect(page.getByRole('form', { name: /^Platz 1 – Buchende Person/ })).toBeVisible()
+  await expect(page.getByLabel('Vollständiger Name, genau wie im Reisepass').first()).toBeVisible()
+
+  // Back to English: the English labels the other tests use are still there.
+  await speak(context, baseURL!, 'en')
+  await page.reload()
+  await hydrated(page)
+  await expect(page.getByRole('heading', { name: 'Travellers on this booking' })).toBeVisible()
+  await expect(page.getByTestId('paid')).toHaveText(/^€[\d,]+\.\d{2}$/)
+})
+
+test('the countdown speaks French, red screen and all', async ({ page, context, baseURL }) => {
+  await signInAs(page, 'guide@umbrafield.test')
+  await speak(context, baseURL!, 'fr')
+  await gotoHydrated(page, '/trips/1/countdown/4')
+  await expect(page.getByTestId('next-cue')).toContainText('La phase partielle commence')
+  await expect(page.getByText('Prochaine étape')).toBeVisible()
+  await expect(page.getByRole('note', { name: 'Protection des yeux' })).toBeVisible()
+  await expect(page.getByTestId('last-sync')).toContainText('Dernière synchronisation')
+  await expect(page.getByText(/heure locale · \d{2}:\d{2}:\d{2} UTC · filtres en place/)).toBeVisible()
+  await page.getByRole('button', { name: 'Écran rouge' }).click()
+  await expect(page.getByTestId('countdown')).toHaveClass(/bg-black/)
+  await speak(context, baseURL!, 'en')
+})
