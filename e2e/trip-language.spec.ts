@@ -33,6 +33,7 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   await expect(page.getByRole('region', { name: 'Was Sie mitbringen sollten' })).toContainText('ISO 12312-2')
   // Clock times keep their zone labels; UTC stays UTC.
   await expect(seq.getByText(/^\d{2}:\d{2}:\d{2} UTC$/).first()).toBeVisible()
+  await page.screenshot({ path: 'test-results/briefing-de.png', fullPage: true })
 
   // The trip page: headings, the contact table and the booking box in German.
   await gotoHydrated(page, '/trips/1')
@@ -44,6 +45,7 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   await expect(page.getByText(/Totale Sonnenfinsternis vom \d{1,2}\. August 2027/)).toBeVisible()
   await expect(page.getByText('pro Platz').first()).toBeVisible()
   await expect(page.getByText('Bei Stornierung')).toBeVisible()
+  await page.screenshot({ path: 'test-results/trip-de.png', fullPage: true })
 
   // The booking: German labels, money written the German way (1.234,56 €).
   await page.getByRole('link', { name: 'Ihre Buchung' }).click()
@@ -55,6 +57,7 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   await expect(page.getByTestId('paid')).toHaveText(/^\d{1,3}(\.\d{3})*,\d{2}\s€$/)
   await expect(page.getByRole('form', { name: /^Platz 1 – Buchende Person/ })).toBeVisible()
   await expect(page.getByLabel('Vollständiger Name, genau wie im Reisepass').first()).toBeVisible()
+  await page.screenshot({ path: 'test-results/booking-de.png', fullPage: true })
 
   // Back to English: the English labels the other tests use are still there.
   await speak(context, baseURL!, 'en')
@@ -73,6 +76,7 @@ test('the countdown speaks French, red screen and all', async ({ page, context, 
   await expect(page.getByRole('note', { name: 'Protection des yeux' })).toBeVisible()
   await expect(page.getByTestId('last-sync')).toContainText('Dernière synchronisation')
   await expect(page.getByText(/heure locale · \d{2}:\d{2}:\d{2} UTC · filtres en place/)).toBeVisible()
+  await page.screenshot({ path: 'test-results/countdown-fr.png', fullPage: true })
   await page.getByRole('button', { name: 'Écran rouge' }).click()
   await expect(page.getByTestId('countdown')).toHaveClass(/bg-black/)
   await speak(context, baseURL!, 'en')
