@@ -1,4 +1,5 @@
 import { languageTag } from '#shared/i18n/locales'
+import { tripFieldMessage } from '#shared/i18n/tripFieldMessages'
 import { localAndUtcLine, roundedSecondMs } from '#shared/time/local'
 
 /**
@@ -83,23 +84,11 @@ export function useTripFormat() {
    */
   function fieldError(msg: string | null | undefined): string {
     if (!msg || isEnglish.value) return msg ?? ''
-    let m: RegExpExecArray | null
-    if ((m = /^Choose at most (\d+) seats per booking$/.exec(msg))) return t('participant.error.seatsMax', { n: m[1] })
-    if (msg === 'Choose at least one seat' || msg === 'Choose a whole number of seats') return t('participant.error.seatsMin')
-    if ((m = /^Enter the (date of birth|passport expiry date) as YYYY-MM-DD$/.exec(msg))) return t(m[1] === 'date of birth' ? 'participant.error.dobFormat' : 'participant.error.expiryFormat')
-    if ((m = /^At most (\d+) characters$/.exec(msg))) return t('participant.error.maxChars', { n: m[1] })
-    if (/ may not contain control characters/.test(msg)) return t('participant.error.controlChars')
-    if (/^Write the number in international form/.test(msg)) return t('participant.error.phoneInternational')
-    if (/^Not a valid phone number/.test(msg)) return t('participant.error.phoneInvalid')
-    if (/^Unknown country code/.test(msg)) return t('participant.error.country')
-    if (/^A passport number is 5–20/.test(msg)) return t('participant.error.passportNumber')
-    if (/^Choose single, double, twin or shared$/.test(msg)) return t('participant.error.room')
-    if (msg === 'A date of birth cannot be in the future') return t('participant.error.dobFuture')
-    if (msg === 'Check the year of birth') return t('participant.error.dobYear')
-    if ((m = /^The passport expires less than (\d+) months after the trip ends \((\d{4}-\d{2}-\d{2})\).*valid until (\d{4}-\d{2}-\d{2}) or later/.exec(msg))) {
-      return t('participant.error.passportExpiry', { months: m[1], end: date(m[2]), until: date(m[3]) })
-    }
-    return msg
+    const known = tripFieldMessage(msg)
+    if (!known) return msg
+    const params = { ...known.params }
+    for (const k of known.dates ?? []) params[k] = date(params[k])
+    return t(`participant.error.${known.key}`, params)
   }
   return { tag, fieldError, timeLine, isEnglish, date, dateRange, utcDateTime, localDateTime, zonedDateTime, money, number, duration, compass }
 }
