@@ -54,7 +54,7 @@ describe('trip.json', () => {
     const files = ['pages/trips/index.vue', 'pages/trips/[id]/index.vue', 'pages/bookings/index.vue', 'pages/bookings/[id].vue',
       'pages/trips/[id]/briefing.vue', 'pages/trips/[id]/countdown/[siteId].vue', 'pages/ack/[token].vue', 'composables/useTripFormat.ts',
       ...readdirSync(join(root, 'components', 'briefing')).map((f) => `components/briefing/${f}`),
-      'components/participants/ParticipantsSeatForm.vue', 'components/decision/DecisionBanner.vue', 'components/trips/TripsStatusChip.vue']
+      'components/participants/ParticipantsSeatForm.vue', 'components/decision/DecisionBanner.vue', 'components/trips/TripsStatusChip.vue', 'components/operations/OperationsBookingMessages.vue']
     const namespaces = new Set(Object.keys(en).map((k) => k.split('.')[0]))
     const missing: string[] = []
     let asked = 0
