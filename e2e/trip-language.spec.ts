@@ -11,6 +11,10 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   await speak(context, baseURL!, 'en')
   await gotoHydrated(page, '/trips/1/briefing')
   await expect(page.getByRole('region', { name: 'What you will see, and when' })).toBeVisible()
+  // Where the diamond ring shows on the Sun's disc, as the English step says it ("about 8 o'clock").
+  const english = await page.locator('[data-step="beads"]').textContent()
+  const hour = /about (\d+) o'clock/.exec(english ?? '')?.[1]
+  expect(hour).toBeTruthy()
 
   // The traveller switches to German: the same page now speaks German.
   await speak(context, baseURL!, 'de')
@@ -19,6 +23,7 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   const seq = page.getByRole('region', { name: 'Was Sie sehen werden und wann' })
   await expect(seq).toBeVisible()
   await expect(seq.locator('[data-step="beads"]')).toContainText('Perlschnurphänomen und Diamantring')
+  await expect(seq.locator('[data-step="beads"]')).toContainText(`etwa bei ${hour} Uhr`)
   await expect(seq.locator('[data-step="filters-off"]')).toContainText('Filter ab')
   await expect(seq.locator('[data-step="partial-begins"]')).toContainText('Finsternisbrille')
   await expect(seq).not.toContainText('Watch through your eclipse viewer')
