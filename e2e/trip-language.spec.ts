@@ -63,6 +63,11 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   await expect(page.getByRole('form', { name: /^Platz 1 – Buchende Person/ })).toBeVisible()
   await expect(page.getByLabel('Vollständiger Name, genau wie im Reisepass').first()).toBeVisible()
   await page.screenshot({ path: 'test-results/booking-de.png', fullPage: true })
+  // A field message from the shared schema, said in German beside its field (nothing is saved).
+  const seat2 = page.getByRole('form', { name: /^Platz 2/ })
+  await seat2.getByLabel(/^Mobiltelefon/).fill('0123')
+  await seat2.getByRole('button', { name: 'Platz 2 speichern' }).click()
+  await expect(seat2.getByText(/im internationalen Format ein, mit \+ und Landesvorwahl/)).toBeVisible()
 
   // Back to English: the English labels the other tests use are still there.
   await speak(context, baseURL!, 'en')
