@@ -221,6 +221,18 @@ describe(`two-factor sign-in (${TEST_DB})`, () => {
     expect((await login(email, PASSWORD, await codeAt(secret, await appNowMs()))).status).toBe(200)
   })
 
+  it('erasing the account leaves none of its throttling rows (they hold client addresses), the two-factor lock\'s included', async () => {
+    const { email, id, cookie } = await newAccount()
+    const { secret } = await enableTotp(cookie)
+    expect((await login(email, PASSWORD, await wrongCode(secret, await appNowMs()))).body.data?.code).toBe('totp_invalid')
+    const keys = [email, `totp:${id}`, `password:${id}`]
+    const rows = () => db.selectFrom('sign_in_failures').select('email').where('email', 'in', keys).execute()
+    expect((await rows()).map((r) => r.email)).toEqual(expect.arrayContaining([email, `totp:${id}`]))
+    await advanceClock(16 * 60_000)
+    expect((await api('/api/me/erase', { method: 'POST', cookie, body: { password: PASSWORD, confirm: true } })).status).toBe(200)
+    expect(await rows()).toEqual([])
+  })
+
   it('attack: turning it off needs the right password and a right code', async () => {
     const { email, cookie } = await newAccount()
     const { secret } = await enableTotp(cookie)
