@@ -3,20 +3,19 @@
 //   Restore: stop the app, copy the backup over the database file (and delete its -wal and -shm files), start again.
 // PostgreSQL (DATABASE_URL=postgres://…): pg_dump in its custom format to data/backups/umbrafield-<UTC time>.dump.
 //   Restore: pg_restore --clean --if-exists -d "$DATABASE_URL" FILE, with the app stopped.
-import { spawnSync } from 'node:child_process'
-import { mkdirSync } from 'node:fs'
-import { dirname, resolve } from 'node:path'
 import { backupDatabase, openDatabase } from '../server/database/connection'
 import { isPostgresUrl } from '../server/database/dialect'
+import { backupPostgres } from '../server/database/pgBackup'
 
 const stamp = new Date().toISOString().replace(/[:.]/g, '-')
 const url = process.env.DATABASE_URL
 if (isPostgresUrl(url)) {
-  const target = resolve(process.argv[2] || `data/backups/umbrafield-${stamp}.dump`)
-  mkdirSync(dirname(target), { recursive: true })
-  const r = spawnSync('pg_dump', ['--format=custom', `--file=${target}`, url], { stdio: 'inherit' })
-  if (r.status !== 0) { console.error(`pg_dump failed (${r.error?.message ?? `exit ${r.status}`})`); process.exit(1) }
-  console.log(`backed up the PostgreSQL database to ${target}`)
+  try {
+    console.log(`backed up the PostgreSQL database to ${backupPostgres(url, process.argv[2] || `data/backups/umbrafield-${stamp}.dump`)}`)
+  } catch (e) {
+    console.error((e as Error).message)
+    process.exit(1)
+  }
 } else {
   const path = process.env.NUXT_DB_PATH || 'data/umbrafield.sqlite'
   const target = process.argv[2] || `data/backups/umbrafield-${stamp}.sqlite`

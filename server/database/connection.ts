@@ -106,13 +106,21 @@ export async function migrateToLatest(db: Kysely<Database>, set: Record<string, 
  */
 export async function backupDatabase(db: Kysely<Database>, file: string): Promise<string> {
   if (isPostgres(db)) throw new Error('on PostgreSQL, back up with pg_dump (see the README, "Running several instances")')
-  const target = resolve(file)
-  // A backup holds every account and booking: a folder made here is the owner's alone (0700).
-  // (A folder that already exists is left as it is: it may be shared, like /tmp.) The file is
-  // created empty with mode 0600 first, which VACUUM INTO accepts, so it is never readable by others.
-  mkdirSync(dirname(target), { recursive: true, mode: 0o700 })
-  closeSync(openSync(target, 'wx', 0o600))
+  const target = privateBackupFile(file)
   await sql`vacuum into ${target}`.execute(db)
   chmodSync(target, 0o600)
+  return target
+}
+
+/**
+ * Makes the empty file a backup is then written into, readable by its owner only. A backup holds
+ * every account and booking: a folder made here is the owner's alone (0700). (A folder that already
+ * exists is left as it is: it may be shared, like /tmp.) The file is created empty with mode 0600
+ * first, which VACUUM INTO and pg_dump both write into, so it is never readable by others.
+ */
+export function privateBackupFile(file: string): string {
+  const target = resolve(file)
+  mkdirSync(dirname(target), { recursive: true, mode: 0o700 })
+  closeSync(openSync(target, 'wx', 0o600))
   return target
 }

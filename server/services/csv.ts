@@ -8,11 +8,19 @@ import Papa from 'papaparse'
  * start of every line too: some importers split a quoted multi-line cell and evaluate each line.
  * Numbers stay numbers (a negative longitude is not a formula).
  */
-const FORMULA_START = /(^|[\r\n])(?=[=+\-@\t\r])/g
+const FORMULA_START = new Set(['=', '+', '-', '@', '\t', '\r'])
 
 export function csvSafeCell<T>(value: T): T | string {
   if (typeof value !== 'string') return value
-  return value.replace(FORMULA_START, (_m, lead: string) => `${lead}'`)
+  // Character by character, so a line that starts right after a carriage return which itself opened
+  // a line ("\r=1") is checked too.
+  let out = ''
+  for (let i = 0; i < value.length; i++) {
+    const lineStart = i === 0 || value[i - 1] === '\r' || value[i - 1] === '\n'
+    if (lineStart && FORMULA_START.has(value[i]!)) out += "'"
+    out += value[i]
+  }
+  return out
 }
 
 /** CSV with a header row from the first object's keys; every text cell made safe as above. */

@@ -3,7 +3,8 @@ import { base32 } from '@otplib/plugin-base32-scure'
 import { NodeCryptoPlugin } from '@otplib/plugin-crypto-node'
 import { generateSync } from '@otplib/totp'
 import { generateTOTP } from '@otplib/uri'
-import type { Kysely, Transaction } from 'kysely'
+import { sql, type Kysely, type Transaction } from 'kysely'
+import { isPostgres } from '../database/dialect'
 import QRCode from 'qrcode'
 import type { Database, Role, User } from '../database/schema'
 import type { SecuritySettings, TotpSetup, TotpStatus } from '../../shared/schemas/totp'
@@ -36,7 +37,42 @@ export const pendingContext = (userId: number) => `totp-pending:${userId}`
 
 /** A refusal with an HTTP status and a machine-readable code (mapped in server/utils/errors.ts). */
 export class TotpError extends Error {
-  constructor(public statusCode: number, public code: string, message: string, public field?: string) { super(message) }
+  constructor(public statusCode: number, public code: string, message: string, public field?: string, public retryAfterSec?: number) { super(message) }
+}
+
+/**
+ * Lockout on app codes, per account and from any address: after ten wrong 6-digit codes inside 24
+ * hours, app codes are refused (429 totp_locked) until the oldest of them is a day old. The sign-in
+ * backoff alone still lets about forty guesses an hour through (its window is 15 minutes); this caps
+ * guessing at ten a day, a chance of about 3 in 100 000 with three codes valid at a time (±1 step).
+ * A success does not wipe the count, so guesses cannot be spread between the owner's sign-ins.
+ * Recovery codes (80 random bits, not guessable) still work, so the owner is never shut out.
+ */
+export const TOTP_LOCK = { maxFailures: 10, windowHours: 24 } as const
+const lockKey = (userId: number) => `totp:${userId}`
+
+/**
+ * Counts the account's recent wrong app codes and, unless locked, records this attempt as one (in the
+ * same transaction, so parallel guesses queue rather than all slipping under the limit). Returns the
+ * recorded row's id, to be deleted if the code turns out right.
+ */
+async function beginCodeAttempt(db: Kysely<Database>, userId: number): Promise<number> {
+  return db.transaction().execute(async (trx) => {
+    // SQLite: BEGIN IMMEDIATE serialises writers already; PostgreSQL: an advisory lock on the key.
+    if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(hashtext(${lockKey(userId)}))`.execute(trx)
+    const now = nowMs()
+    const windowMs = TOTP_LOCK.windowHours * 3600_000
+    const r = await trx.selectFrom('sign_in_failures').select((eb) => [eb.fn.countAll<number>().as('n'), eb.fn.min('at').as('oldest')])
+      .where('email', '=', lockKey(userId)).where('at', '>', new Date(now - windowMs).toISOString()).executeTakeFirstOrThrow()
+    if (Number(r.n) >= TOTP_LOCK.maxFailures) {
+      const retryAfterSec = Math.max(1, Math.ceil((Date.parse(String(r.oldest)) + windowMs - now) / 1000))
+      throw new TotpError(429, 'totp_locked', 'Too many wrong codes for this account. Sign in with a recovery code, or try an app code again later.', 'totp', retryAfterSec)
+    }
+    // The address is not recorded here: the sign-in backoff already counts this attempt for it.
+    const row = await trx.insertInto('sign_in_failures').values({ email: lockKey(userId), ip: '-', at: new Date(now).toISOString() })
+      .returning('id').executeTakeFirstOrThrow()
+    return Number(row.id)
+  })
 }
 
 /** RFC 4648 §6 Base32 (no padding), the form authenticator apps take secrets in (otplib's scure plugin). */
@@ -183,11 +219,15 @@ export async function checkSecondFactor(db: Kysely<Database>, user: User, input:
       if (e instanceof SealError) return false
       throw e
     }
+    const attempt = await beginCodeAttempt(db, user.id)
     const step = matchStep(secret, compact, nowMs(), r.last_step)
     if (step === null) return false
     const res = await db.updateTable('user_totp').set({ last_step: step }).where('user_id', '=', user.id)
       .where((eb) => eb.or([eb('last_step', 'is', null), eb('last_step', '<', step)])).executeTakeFirst()
-    return Number(res.numUpdatedRows) === 1
+    if (Number(res.numUpdatedRows) !== 1) return false
+    // A right code is no guess: it leaves the count as it was.
+    await db.deleteFrom('sign_in_failures').where('id', '=', attempt).execute()
+    return true
   }
   if (normaliseRecovery(compact).length !== 16) return false
   return db.transaction().execute(async (trx) => {

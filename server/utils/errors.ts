@@ -31,7 +31,7 @@ export function httpErrorFor(e: unknown): Error | null {
   if (e instanceof EmailUnconfirmedError) return createError({ statusCode: 403, statusMessage: 'E-mail not confirmed', message: e.message, data: { code: 'email_unconfirmed' } })
   if (e instanceof RefundLimitError) return createError({ statusCode: 400, statusMessage: 'Invalid input', message: e.message, data: { fields: { amountMinor: e.message } } })
   if (e instanceof TotpError) {
-    return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
+    return createError({ statusCode: e.statusCode, statusMessage: e.statusCode === 400 ? 'Invalid input' : e.statusCode === 429 ? 'Too many attempts' : 'Conflict', message: e.message, data: { code: e.code, ...(e.field ? { fields: { [e.field]: e.message } } : {}) } })
   }
   if (e instanceof CheckoutPendingError) return createError({ statusCode: 409, statusMessage: 'Checkout pending', message: e.message, data: { code: 'checkout_pending' } })
   if (e instanceof TooEarlyError) return createError({ statusCode: 409, statusMessage: 'Too early', message: e.message, data: { code: 'too_early', daysToWait: e.daysToWait, opensOn: e.opensOn } })

@@ -131,7 +131,13 @@ describe(`invitations (${TEST_DB})`, () => {
       const r = await api('/api/auth/login', { method: 'POST', body: { email: 'no-pw-yet@umbrafield.test', password: guess || 'x' }, headers: from('198.51.100.50') })
       expect(r.status).toBe(401)
     }
+    // Nor does the audit trail or the queued mail carry one: the audit says who and which role only.
+    const audited = await db.selectFrom('audit_log').select(['action', 'detail']).where('subject_user_id', '=', inv.body.user.id).execute()
+    expect(audited.map((a) => a.action)).toContain('invite')
+    for (const a of audited) expect(String(a.detail ?? '')).not.toMatch(/password|hash|argon|scrypt/i)
     const mail = await caughtMail('no-pw-yet@umbrafield.test', /invited/)
+    // The mail's only secret is the link's token (checked at rest below, in "one-time tokens at rest").
+    expect(mail.text.replace(/https?:\/\/\S+/g, '')).not.toMatch(/password:|temporary|\$argon|\$scrypt/i)
     expect(mail.text).toMatch(/Choose your password/)
     expect(mail.text).toMatch(/\/reset-password\?token=[A-Za-z0-9_-]+&invite=1/)
     expect(mail.text).toMatch(/7 days/)

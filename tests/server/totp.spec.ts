@@ -187,6 +187,52 @@ describe(`two-factor sign-in (${TEST_DB})`, () => {
     expect((await login(email, PASSWORD, await codeAt(secret, await appNowMs()))).status).toBe(429)
   })
 
+  it('attack: guessing slowly, past the backoff, meets a per-account lockout after ten wrong codes a day; recovery codes still work', async () => {
+    const { email, cookie } = await newAccount()
+    const { secret, recoveryCodes } = await enableTotp(cookie)
+    // Each guess 16 minutes after the last, so the 15-minute sign-in backoff never holds it back.
+    const statuses: Array<number | string | undefined> = []
+    for (let i = 0; i < 10; i++) {
+      await advanceClock(16 * 60_000)
+      const r = await login(email, PASSWORD, await wrongCode(secret, await appNowMs()))
+      statuses.push(r.body.data?.code)
+    }
+    expect(statuses).toEqual(Array(10).fill('totp_invalid'))
+    await advanceClock(16 * 60_000)
+    // The eleventh try, with the right code, is refused: the lock does not test the code at all.
+    const res = await fetch(url('/api/auth/login'), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: PASSWORD, totp: await codeAt(secret, await appNowMs()) }) })
+    expect(res.status).toBe(429)
+    expect((await res.json()).data.code).toBe('totp_locked')
+    expect(res.headers.getSetCookie()).toEqual([])
+    // The oldest wrong code was 10 × 16 min ago: the lock lifts when it is a day old.
+    const retryAfter = Number(res.headers.get('retry-after'))
+    expect(retryAfter).toBeGreaterThan(24 * 3600 - 11 * 16 * 60 - 60)
+    expect(retryAfter).toBeLessThanOrEqual(24 * 3600 - 10 * 16 * 60)
+    // Turning two-factor off is no way round it.
+    await advanceClock(16 * 60_000)
+    const off = await api('/api/me/totp', { method: 'DELETE', cookie, body: { password: PASSWORD, totp: await codeAt(secret, await appNowMs()) } })
+    expect(off.status).toBe(429)
+    expect(off.body.data.code).toBe('totp_locked')
+    // The owner gets in with a recovery code meanwhile.
+    await advanceClock(16 * 60_000)
+    expect((await login(email, PASSWORD, recoveryCodes[0]!)).status).toBe(200)
+    // A day after the first wrong code, app codes work again.
+    await advanceClock(24 * 3600_000)
+    expect((await login(email, PASSWORD, await codeAt(secret, await appNowMs()))).status).toBe(200)
+  })
+
+  it('erasing the account leaves none of its throttling rows (they hold client addresses), the two-factor lock\'s included', async () => {
+    const { email, id, cookie } = await newAccount()
+    const { secret } = await enableTotp(cookie)
+    expect((await login(email, PASSWORD, await wrongCode(secret, await appNowMs()))).body.data?.code).toBe('totp_invalid')
+    const keys = [email, `totp:${id}`, `password:${id}`]
+    const rows = () => db.selectFrom('sign_in_failures').select('email').where('email', 'in', keys).execute()
+    expect((await rows()).map((r) => r.email)).toEqual(expect.arrayContaining([email, `totp:${id}`]))
+    await advanceClock(16 * 60_000)
+    expect((await api('/api/me/erase', { method: 'POST', cookie, body: { password: PASSWORD, confirm: true } })).status).toBe(200)
+    expect(await rows()).toEqual([])
+  })
+
   it('attack: turning it off needs the right password and a right code', async () => {
     const { email, cookie } = await newAccount()
     const { secret } = await enableTotp(cookie)

@@ -9,7 +9,9 @@ describe('spreadsheet-safe CSV cells', () => {
     ['-2+3', `'-2+3`],
     ['@SUM(A1:A2)', `'@SUM(A1:A2)`],
     ['\t=1', `'\t=1`],
-    ['\r=1', `'\r=1`],
+    ['\r=1', `'\r'=1`],
+    ['\r\n-1', `'\r\n'-1`],
+    ['\n+1', `\n'+1`],
     // a cell that spans lines: every line start is checked
     ['Ana\n=cmd|calc', `Ana\n'=cmd|calc`],
     ['Ana\r\n+1', `Ana\r\n'+1`],

@@ -1,4 +1,5 @@
-import { mkdtempSync, statSync } from 'node:fs'
+import { spawnSync } from 'node:child_process'
+import { mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { deflateSync } from 'node:zlib'
@@ -6,6 +7,7 @@ import { getDecoder } from 'geotiff'
 import type { Transporter } from 'nodemailer'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { backupDatabase, migrateToLatest, openDatabase } from '../../server/database/connection'
+import { backupPostgres } from '../../server/database/pgBackup'
 import { advanceClock, nowMs } from '../../server/services/clock'
 import { lzwDecodedLength } from '../../server/services/geotiff'
 import { singleFlight, withLease } from '../../server/services/leases'
@@ -93,6 +95,24 @@ describe('backups', () => {
     expect(statSync(dir).mode & 0o777).toBe(0o700)
     expect(statSync(file).size).toBeGreaterThan(0)
     await db.destroy()
+  })
+
+  it('of PostgreSQL are 0600 in a 0700 folder too, whatever the umask pg_dump runs with', () => {
+    // A stand-in for pg_dump that writes its --file the way a program does, under umask 022.
+    const bin = mkdtempSync(join(tmpdir(), 'uf-pgdump-'))
+    const fake = join(bin, 'pg_dump')
+    writeFileSync(fake, `#!/bin/sh\numask 022\nfor a in "$@"; do case "$a" in --file=*) printf 'PGDMP' > "\${a#--file=}";; esac; done\n`, { mode: 0o755 })
+    const dir = join(mkdtempSync(join(tmpdir(), 'uf-backup-')), 'backups')
+    const file = backupPostgres('postgres://nobody@127.0.0.1:1/none', join(dir, 'umbrafield-test.dump'), fake)
+    expect(readFileSync(file, 'utf8')).toBe('PGDMP')
+    expect(statSync(file).mode & 0o777).toBe(0o600)
+    expect(statSync(dir).mode & 0o777).toBe(0o700)
+  })
+
+  it('never land in git: data/backups is ignored', () => {
+    for (const f of ['data/backups/umbrafield-2027-08-02.sqlite', 'data/backups/umbrafield-2027-08-02.dump']) {
+      expect(spawnSync('git', ['check-ignore', '-q', f], { cwd: join(__dirname, '../..') }).status, f).toBe(0)
+    }
   })
 })
 

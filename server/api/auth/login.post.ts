@@ -1,6 +1,6 @@
 import { LoginBody } from '#shared/schemas/auth'
 import { recordFailure, recordSuccess } from '../../services/accounts'
-import { checkSecondFactor, totpEnabled } from '../../services/totp'
+import { totpEnabled } from '../../services/totp'
 
 const GENERIC = 'E-mail or password is not right'
 
@@ -25,7 +25,7 @@ export default defineEventHandler(async (event) => {
     if (!totp) {
       throw createError({ statusCode: 401, statusMessage: 'Code needed', message: 'Enter the 6-digit code from your authenticator app, or a recovery code.', data: { code: 'totp_required' } })
     }
-    if (!(await checkSecondFactor(db, user, totp, ip))) {
+    if (!(await secondFactorOr429(event, db, user, totp, ip))) {
       await recordFailure(db, email, ip)
       throw createError({ statusCode: 401, statusMessage: 'Sign-in failed', message: 'That code is not right, or it was already used.', data: { code: 'totp_invalid' } })
     }

@@ -128,7 +128,8 @@ export async function erasePersonalData(db: Kysely<Database>, stripe: Stripe | n
     await trx.updateTable('audit_log').set((eb) => ({ detail: eb.fn<string>('replace', ['detail', sql.val(JSON.stringify(current.email)), sql.val('"[erased]"')]) }))
       // (LIKE's wildcards in the address match any character there: a wider net; replace() is exact.)
       .where('detail', 'like', `%${current.email.replace(/[%_\\]/g, '_')}%`).execute()
-    await trx.deleteFrom('sign_in_failures').where('email', '=', current.email).execute()
+    // Throttling rows by address, by current-password key and by two-factor lock key (they hold client addresses).
+    await trx.deleteFrom('sign_in_failures').where('email', 'in', [current.email, `password:${user.id}`, `totp:${user.id}`]).execute()
     await trx.deleteFrom('totp_recovery_codes').where('user_id', '=', user.id).execute()
     await trx.deleteFrom('user_totp').where('user_id', '=', user.id).execute()
     await trx.deleteFrom('account_tokens').where('user_id', '=', user.id).execute()

@@ -1,6 +1,6 @@
 import { TotpDisableBody } from '#shared/schemas/totp'
 import { recordFailure, recordSuccess } from '../../../services/accounts'
-import { assertMayDisable, checkSecondFactor, disableTotp } from '../../../services/totp'
+import { assertMayDisable, disableTotp } from '../../../services/totp'
 
 /** Turns two-factor off: needs the password and a current code (or a recovery code). */
 export default defineEventHandler(async (event) => {
@@ -16,7 +16,7 @@ export default defineEventHandler(async (event) => {
     await recordFailure(db, key, ip)
     throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'Password is not right', data: { fields: { password: 'Password is not right' } } })
   }
-  if (!(await checkSecondFactor(db, user, totp, ip))) {
+  if (!(await secondFactorOr429(event, db, user, totp, ip))) {
     await recordFailure(db, key, ip)
     throw createError({ statusCode: 400, statusMessage: 'Invalid input', message: 'That code is not right', data: { code: 'totp_invalid', fields: { totp: 'That code is not right' } } })
   }
