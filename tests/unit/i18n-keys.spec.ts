@@ -3,6 +3,7 @@ import { join, resolve } from 'node:path'
 import { baseCompile } from '@intlify/message-compiler'
 import { describe, expect, it } from 'vitest'
 import { LOCALE_CODES, LOCALE_FILES } from '../../shared/i18n/locales'
+import { MESSAGE_TEXTS } from '../../composables/localMessage'
 
 /**
  * Every message file of every locale, read from i18n/locales/<code>/ (the whole folder, so files other
@@ -138,6 +139,10 @@ describe('messages namespace', () => {
   const root = resolve(__dirname, '../..')
   const source = ['shared', 'server', 'composables'].map((d) => sourceText(join(root, d))).join('\n')
   const messages = [...en.get('app.json')!].filter(([k]) => k.startsWith('messages.'))
+
+  it('the pages\' index of messages is the English file\'s messages namespace, word for word', () => {
+    expect(Object.fromEntries(messages.map(([k, v]) => [k.slice('messages.'.length), v]))).toEqual(MESSAGE_TEXTS)
+  })
 
   it.each(messages)('%s is a message the code sends', (_key, english) => {
     // plainTextMessage('name') builds its message from the field name; every other message is literal.
