@@ -8,8 +8,8 @@ import { isLocale } from '#shared/i18n/locales'
 export default defineNuxtPlugin({
   name: 'user-locale',
   dependsOn: ['i18n:plugin'],
-  async setup(nuxtApp) {
-    const i18n = nuxtApp.$i18n
+  async setup() {
+    const i18n = useNuxtApp().$i18n
     const follow = async (code: unknown) => {
       if (isLocale(code) && code !== i18n.locale.value) await i18n.setLocale(code)
     }
