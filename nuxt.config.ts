@@ -29,7 +29,6 @@ export default defineNuxtConfig({
   typescript: { strict: true, typeCheck: false },
   app: {
     head: {
-      htmlAttrs: { lang: 'en-GB' },
       title: 'Umbrafield',
       meta: [
         { name: 'viewport', content: 'width=device-width, initial-scale=1' },

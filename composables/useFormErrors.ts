@@ -30,7 +30,7 @@ export function useFormErrors(formFields: readonly string[] = []) {
     const out: Record<string, string> = {}
     for (const issue of r.error.issues) {
       const k = issue.path.length ? issue.path.join('.') : '_'
-      out[k] ??= issue.message
+      out[k] ??= localMessage(issue.message)
     }
     fields.value = out
     return false

@@ -13,7 +13,7 @@ export function zodSchema<T>(schema: ZodType<T>): TypedSchema<T, T> {
       const byPath = new Map<string, string[]>()
       for (const issue of r.error.issues) {
         const path = issue.path.join('.')
-        byPath.set(path, [...(byPath.get(path) ?? []), issue.message])
+        byPath.set(path, [...(byPath.get(path) ?? []), localMessage(issue.message)])
       }
       return { errors: [...byPath].map(([path, errors]) => ({ path, errors })) }
     },
@@ -23,10 +23,10 @@ export function zodSchema<T>(schema: ZodType<T>): TypedSchema<T, T> {
 /** Field messages from a 400 response ({ data: { fields } }) so server-side checks show beside the fields. */
 export function serverFieldErrors(e: unknown): Record<string, string> {
   const data = (e as { data?: { data?: { fields?: Record<string, string> } } })?.data?.data
-  return data?.fields ?? {}
+  return Object.fromEntries(Object.entries(data?.fields ?? {}).map(([k, m]) => [k, localMessage(m)]))
 }
 
 export function serverMessage(e: unknown, fallback = 'Something went wrong. Try again.'): string {
   const d = (e as { data?: { message?: string; statusMessage?: string } })?.data
-  return d?.message || d?.statusMessage || fallback
+  return localMessage(d?.message || d?.statusMessage || fallback)
 }

@@ -6,8 +6,9 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event, { totpSetup: true })
   const patch = await readBodyAs(event, AccountPatch)
   const db = useDb()
-  const set: { name?: string; password_hash?: string } = {}
+  const set: { name?: string; password_hash?: string; locale?: string } = {}
   if (patch.name) set.name = patch.name
+  if (patch.locale) set.locale = patch.locale
   if (patch.newPassword) {
     // The current-password check is throttled like sign-in, keyed by the account.
     const key = `password:${user.id}`

@@ -71,7 +71,7 @@ export class EmailTakenError extends Error {}
  * same transaction; one an organiser invites counts as confirmed (the organiser vouches for the
  * address) and gets its invitation link, with which the invitee chooses a first password.
  */
-export async function createUser(db: Kysely<Database>, input: { name: string; email: string; passwordHash: string; role: Role },
+export async function createUser(db: Kysely<Database>, input: { name: string; email: string; passwordHash: string; role: Role; locale?: string },
   actorId: number | null, ip: string | null, action: 'sign_up' | 'invite', appUrl?: string, inviter?: string): Promise<User> {
   return db.transaction().execute(async (trx) => {
     const exists = await trx.selectFrom('users').select('id').where('email', '=', input.email).executeTakeFirst()
@@ -79,6 +79,7 @@ export async function createUser(db: Kysely<Database>, input: { name: string; em
     const user = await trx.insertInto('users').values({
       name: input.name, email: input.email, password_hash: input.passwordHash, role: input.role,
       email_confirmed_at: action === 'invite' ? nowIso() : null,
+      ...(input.locale ? { locale: input.locale } : {}),
     }).returningAll().executeTakeFirstOrThrow()
     await audit(trx, { action, actorUserId: actorId ?? user.id, subjectUserId: user.id, ip, detail: { role: input.role } })
     if (action === 'sign_up' && appUrl) await sendEmailConfirmation(trx, user, appUrl)

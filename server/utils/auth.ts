@@ -1,12 +1,13 @@
 import type { H3Event } from 'h3'
 import type { Role, User } from '../database/schema'
 import type { PublicUser } from '#shared/schemas/auth'
+import { DEFAULT_LOCALE, isLocale } from '#shared/i18n/locales'
 import { nowIso, nowMs } from '../services/clock'
 import { totpSetupRequired } from '../services/totp'
 import { clientAddressFrom, parseTrustedProxies, throttleBucket, type TrustedProxies } from './clientAddress'
 
 export function toPublicUser(u: User): PublicUser {
-  return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at }
+  return { id: u.id, email: u.email, name: u.name, role: u.role, createdAt: u.created_at, emailConfirmed: !!u.email_confirmed_at, locale: isLocale(u.locale) ? u.locale : DEFAULT_LOCALE }
 }
 
 /** Sessions last a week from their last renewal; they are renewed (sliding) at most once an hour. */

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { PLAIN_TEXT, plainTextMessage } from './text'
+import { LOCALE_CODES, type LocaleCode } from '../i18n/locales'
 
 export const ROLE_VALUES = ['traveller', 'guide', 'organiser'] as const
 export const RoleSchema = z.enum(ROLE_VALUES, { error: 'Choose traveller, guide or organiser' })
@@ -18,10 +19,15 @@ export type LoginInput = z.infer<typeof LoginBody>
 /** The one strength rule for a new password (sign-up, reset, invitation). */
 const newPassword = z.string({ error: 'Use at least 10 characters' }).min(10, 'Use at least 10 characters').max(200)
 
+/** The account's language: one of the supported codes (shared/i18n/locales.ts). */
+export const LocaleSchema = z.enum(LOCALE_CODES, { error: `Choose one of the languages: ${LOCALE_CODES.join(', ')}` })
+
 export const RegisterBody = z.object({
   name: z.string({ error: 'Enter your name' }).trim().min(1, 'Enter your name').max(120).regex(PLAIN_TEXT, plainTextMessage('name')),
   email,
   password: newPassword,
+  /** The language the sign-up page was shown in; the account keeps it (English when absent). */
+  locale: LocaleSchema.optional(),
 })
 export type RegisterInput = z.infer<typeof RegisterBody>
 
@@ -37,6 +43,7 @@ export const AccountPatch = z.object({
   name: z.string().trim().min(1, 'Enter your name').max(120).regex(PLAIN_TEXT, plainTextMessage('name')).optional(),
   currentPassword: z.string().max(200).optional(),
   newPassword: z.string().min(10, 'Use at least 10 characters').max(200).optional(),
+  locale: LocaleSchema.optional(),
 }).refine((v) => !v.newPassword || !!v.currentPassword, { message: 'Enter your current password', path: ['currentPassword'] })
 
 export const IdParams = z.object({ id: z.coerce.number().int().positive() })
@@ -67,6 +74,8 @@ export interface PublicUser {
   createdAt: string
   /** Whether the owner confirmed the address (needed to hold seats). */
   emailConfirmed: boolean
+  /** The language the account reads Umbrafield and its e-mails in. */
+  locale: LocaleCode
   /** Two-factor sign-in (GET /api/me only): on or off, and whether the organisation's rule still needs it set up. */
   twoFactor?: { enabled: boolean; setupRequired: boolean }
 }

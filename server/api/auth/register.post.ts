@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   const appUrl = useRuntimeConfig(event).public.appUrl
   const passwordHash = await hashPassword(body.password)
   try {
-    await createUser(useDb(), { name: body.name, email: body.email, passwordHash, role: 'traveller' }, null, clientIp(event), 'sign_up', appUrl)
+    await createUser(useDb(), { name: body.name, email: body.email, passwordHash, role: 'traveller', locale: body.locale }, null, clientIp(event), 'sign_up', appUrl)
   } catch (e) {
     if (!(e instanceof EmailTakenError)) throw e
     const owner = await useDb().selectFrom('users').select(['name', 'email']).where('email', '=', body.email).executeTakeFirstOrThrow()
