@@ -10,7 +10,7 @@ export type VoyageOut = Awaited<ReturnType<typeof getVoyage>>
 const fontPath = (weight: 400 | 600 | 700) => createRequire(import.meta.url).resolve(`@fontsource/work-sans/files/work-sans-latin-${weight}-normal.woff`)
 
 /** The embedded latin subset of Work Sans has no Greek or astronomical symbols: spell them out. */
-const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-').replace(/–/g, '-')
+const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-').replace(/–/g, '-')
 
 const INK = '#1a1633', MUTED = '#62579b', RED = '#a8362d', SEA = '#1d5f8a'
 const ANCHORS = ['c1', 'c2', 'max', 'c3', 'c4'] as const
@@ -136,7 +136,7 @@ export function voyagePdf(v: VoyageOut, paper: 'a4' | 'letter'): Promise<Buffer>
     for (const [i, a] of v.alternatives.entries()) {
       room(14)
       const s = ship(a.departBy)
-      doc.font('ws').fontSize(9).fillColor(INK).text(plain(`${i + 1}. ${position(a.lat, a.lon)} — ${a.durationSec} s, ${a.expectedSec} expected s, ${a.distanceNm} nm, leave by ${s.localClock.slice(0, 5)} ship's time (${s.utc.slice(0, 5)} UTC) on ${s.local.slice(0, 10)}`), left, doc.y + 1, { width })
+      doc.font('ws').fontSize(9).fillColor(INK).text(plain(`${i + 1}. ${position(a.lat, a.lon)} — ${a.durationSec} s, ${a.expectedSec} expected s, ${a.distanceNm} nm, leave by ${s.local.slice(0, 16)} ship's time (${s.utc.slice(0, 5)} UTC)`), left, doc.y + 1, { width })
     }
   }
 
@@ -150,7 +150,7 @@ export function voyagePdf(v: VoyageOut, paper: 'a4' | 'letter'): Promise<Buffer>
   room(60)
   doc.font('ws').fontSize(7.5).fillColor(MUTED).text(
     plain(`${localAndUtcLine(tt.time.line, { zone, utcOffset: offset }).replace("the site's clock", "ship's time")} Elements: ${tt.elementsSource}. ± ${tt.uncertaintyMethod}. `
-      + `Routes are a planning aid on a ${v.method.gridStepDeg}° grid over ${v.method.land}, not a navigation chart: the master decides the passage. `
+      + `Routes are a planning aid, not a navigation chart (a ${v.method.gridStepDeg}° grid over ${v.method.land}): the master decides the passage. `
       + `Generated ${nowIso().slice(0, 16).replace('T', ' ')} UTC.`),
     left, doc.y + 14, { width },
   )
