@@ -32,9 +32,9 @@ test('an organiser plans a voyage from the planning page and reads its timetable
 })
 
 /** A workspace of its own with one voyage, planned through the API (the form is tested above). */
-async function plannedVoyage(page: import('@playwright/test').Page, holdCourse?: { headingDeg: number; speedKn: number }) {
+async function plannedVoyage(page: import('@playwright/test').Page, wsName: string, holdCourse?: { headingDeg: number; speedKn: number }) {
   await signInAs(page, 'organiser@umbrafield.test')
-  const ws = await (await page.request.post('/api/workspaces', { data: { eclipseId: '2027-08-02', name: 'E2E voyages on the map' } })).json()
+  const ws = await (await page.request.post('/api/workspaces', { data: { eclipseId: '2027-08-02', name: wsName } })).json()
   const res = await page.request.post(`/api/workspaces/${ws.id}/voyages`, {
     data: { name: 'Map check (demo)', departure: { lat: 36.7, lon: -4.4, utc: '2027-08-01T20:00:00Z' }, speedKn: 16, returnTo: { lat: 36.7, lon: -4.4 }, ...(holdCourse ? { holdCourse } : {}) },
   })
@@ -44,7 +44,7 @@ async function plannedVoyage(page: import('@playwright/test').Page, holdCourse?:
 
 test('the planning map draws the workspace\'s voyages, with a legend, a toggle and a list of links', async ({ page }) => {
   test.setTimeout(120_000)
-  const { ws, v } = await plannedVoyage(page)
+  const { ws, v } = await plannedVoyage(page, 'E2E voyages on the map')
   await gotoHydrated(page, `/plan/${ws.id}`)
   const map = page.getByTestId('plan-map')
   // Route out and home, the hourly positions, the alternatives and the intercept: one feature each.
@@ -75,7 +75,7 @@ function clocks(utc: string, zone: string) {
 
 test('the voyage countdown counts down to the under-way contacts and keeps working offline', async ({ page, context }) => {
   test.setTimeout(120_000)
-  const { v } = await plannedVoyage(page, { headingDeg: 95, speedKn: 12 })
+  const { v } = await plannedVoyage(page, 'E2E voyage countdown', { headingDeg: 95, speedKn: 12 })
   await gotoHydrated(page, `/voyages/${v.id}`)
   await expect(page.getByRole('link', { name: 'Timetable (PDF)', exact: true })).toHaveAttribute('href', `/api/voyages/${v.id}/timetable.pdf`)
   await page.getByRole('link', { name: 'Open countdown' }).click()
