@@ -64,6 +64,7 @@ test('the planning map draws the workspace\'s voyages, with a legend, a toggle a
   await toggle.uncheck()
   await list.getByRole('button', { name: 'Show Map check (demo) on the map' }).click()
   await expect(toggle).toBeChecked()
+  await page.screenshot({ path: test.info().outputPath('plan-voyages.png') })
 })
 
 /** Ship's time and UTC of an instant, rounded once to the second (half up), by Intl directly. */
@@ -102,6 +103,8 @@ test('the voyage countdown counts down to the under-way contacts and keeps worki
   const leftSec = Math.ceil((Date.parse(u.max.utc) - (Date.parse(u.c2.utc) + 61_000)) / 1000)
   await expect(page.getByTestId('countdown-value')).toHaveText(`${Math.floor(leftSec / 60)}:${String(leftSec % 60).padStart(2, '0')}`)
   await expect(page.getByRole('note', { name: 'Eye safety' })).toContainText('ISO 12312-2')
+  await page.setViewportSize({ width: 390, height: 844 })
+  await page.screenshot({ path: test.info().outputPath('voyage-countdown-phone.png'), fullPage: true })
   // Offline after the first load: the copy on this device and the cached page carry on.
   await expect(page.getByTestId('last-sync')).toContainText('ready offline', { timeout: 15_000 })
   await context.setOffline(true)
