@@ -64,7 +64,8 @@ test('the planning map draws the workspace\'s voyages, with a legend, a toggle a
   await toggle.uncheck()
   await list.getByRole('button', { name: 'Show Map check (demo) on the map' }).click()
   await expect(toggle).toBeChecked()
-  await page.screenshot({ path: test.info().outputPath('plan-voyages.png') })
+  await map.scrollIntoViewIfNeeded()
+  await map.screenshot({ path: test.info().outputPath('plan-voyages.png') })
 })
 
 /** Ship's time and UTC of an instant, rounded once to the second (half up), by Intl directly. */
