@@ -90,7 +90,7 @@ test('the voyage countdown counts down to the under-way contacts and keeps worki
   await expect(page.getByTestId('next-times')).toHaveText(`at ${c1.local} ship's time · ${c1.utc} UTC`)
   // Every contact is listed under way (the ship's own C2 differs from lying stopped).
   const table = page.getByRole('table', { name: "Contacts in ship's time and UTC" })
-  for (const [k, label] of [['c1', 'C1'], ['c2', 'C2'], ['max', 'Maximum'], ['c3', 'C3'], ['c4', 'C4']]) {
+  for (const [k, label] of [['c1', 'C1'], ['c2', 'C2'], ['max', 'Maximum'], ['c3', 'C3'], ['c4', 'C4']] as const) {
     const c = clocks(u[k].utc, zone)
     await expect(table.getByRole('row', { name: new RegExp(label) })).toContainText(`${c.local}${c.utc}`)
   }
