@@ -9,6 +9,7 @@ const cacheable = (url) =>
   url.origin === self.location.origin && (
     /^\/trips\/\d+\/countdown\/\d+/.test(url.pathname) ||
     /^\/api\/trips\/\d+\/timetable$/.test(url.pathname) ||
+    /^\/voyages\/\d+\/countdown$/.test(url.pathname) || /^\/api\/voyages\/\d+$/.test(url.pathname) ||
     url.pathname.startsWith('/_nuxt/') || url.pathname === '/logo.svg')
 
 // After sign-out the page says "forget": this worker stops caching and empties its cache.

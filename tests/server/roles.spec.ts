@@ -266,6 +266,7 @@ const ROWS: Row[] = [
   { method: 'GET', file: 'workspaces/[id]/voyages/index.get', path: () => `/api/workspaces/${fx.luxorWs}/voyages`, want: STAFF(200) },
   { method: 'GET', file: 'voyages/[id]/index.get', path: async () => `/api/voyages/${await aVoyage()}`, want: STAFF(200) },
   { method: 'DELETE', file: 'voyages/[id]/index.delete', path: async (c) => `/api/voyages/${c === 'org' ? await newVoyage() : await aVoyage()}`, want: ORGANISER_ONLY(200), note: 'the organiser deletes a voyage of its own' },
+  { method: 'GET', file: 'voyages/[id]/timetable.pdf.get', path: async () => `/api/voyages/${await aVoyage()}/timetable.pdf`, want: STAFF(200) },
   // (end of block)
 ]
 

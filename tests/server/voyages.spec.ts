@@ -1,6 +1,9 @@
+import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs'
+import { url } from '@nuxt/test-utils/e2e'
 import { afterAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
 import { localCircumstances } from '../../shared/eclipse/local'
+import { courseTrack, movingLocalCircumstances } from '../../shared/eclipse/moving'
 import { computedElementsFor } from '../../server/eclipse/catalogue'
 import { resolveTimeBasis } from '../../server/eclipse/report'
 import { api, GUIDE, inviteAndChoosePassword, ORGANISER, signIn, TRAVELLER, useApp } from './app'
@@ -13,6 +16,23 @@ afterAll(() => db.destroy())
 const MALAGA = { lat: 36.70, lon: -4.40, utc: '2027-08-01T20:00:00Z' }
 const el = computedElementsFor('2027-08-02')!
 const dt = resolveTimeBasis(el, null)
+
+async function pdfText(buf: ArrayBuffer) {
+  const doc = await getDocument({ data: new Uint8Array(buf), useSystemFonts: false, isEvalSupported: false }).promise
+  const pages: string[] = []
+  for (let i = 1; i <= doc.numPages; i++) {
+    const tc = await (await doc.getPage(i)).getTextContent()
+    pages.push(tc.items.map((it) => ('str' in it ? it.str : '')).join(' '))
+  }
+  return pages.join(' ').replace(/\s+/g, ' ')
+}
+
+/** Whole second, half up (the one rounding the app documents), then the clock in UTC and in the zone, by Intl directly. */
+function clocks(utcMs: number, zone: string) {
+  const ms = Math.floor(utcMs / 1000 + 0.5) * 1000
+  const local = new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' }).format(new Date(ms))
+  return { utc: new Date(ms).toISOString().slice(11, 19), local }
+}
 
 describe('voyages', () => {
   it('an organiser plans a voyage: 201 with the intercept, a water route, departBy and alternatives; GET returns the same', async () => {
@@ -64,6 +84,42 @@ describe('voyages', () => {
     expect((await api(`/api/voyages/${v.id}`, { cookie: trav })).status).toBe(403)
     expect((await api('/api/workspaces/1/voyages', { method: 'POST', cookie: trav, body: { name: 'x', departure: MALAGA, speedKn: 16 } })).status).toBe(403)
     expect(await db.selectFrom('voyages').select('id').where('id', '=', v.id).executeTakeFirst()).toBeTruthy()
+  })
+
+  it('the voyage timetable PDF gives every contact in ship\'s time and UTC, stopped and under way, with the safety text', async () => {
+    const org = await signIn(ORGANISER)
+    const hold = { headingDeg: 95, speedKn: 12 }
+    const v = (await api('/api/workspaces/1/voyages', { method: 'POST', cookie: org, body: { name: 'PDF check (demo)', departure: MALAGA, speedKn: 16, holdCourse: hold } })).body
+    const res = await fetch(url(`/api/voyages/${v.id}/timetable.pdf`), { headers: { cookie: org } })
+    expect(res.status).toBe(200)
+    expect(res.headers.get('content-type')).toBe('application/pdf')
+    const text = await pdfText(await res.arrayBuffer())
+    const zone = v.timetable.zone as string
+    // The contacts from the engine itself, at the intercept at sea level; the API gives them to the tenth of a second.
+    const lc = localCircumstances(el, { latDeg: v.intercept.lat, lonDeg: v.intercept.lon, elevationM: 0 }, dt.deltaTSec, dt.ttMinusClockSec)
+    for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
+      expect(Math.abs(Date.parse(v.timetable.contacts[k].utc) - lc[k]!.utcMs), k).toBeLessThanOrEqual(50)
+      const c = clocks(Date.parse(v.timetable.contacts[k].utc), zone)
+      expect(text, `${k} ${c.local} / ${c.utc}`).toContain(`${c.local} ${c.utc}`)
+    }
+    // Under way: the moving observer's contacts, computed here from the course held through maximum.
+    const m = movingLocalCircumstances(el, courseTrack({ latDeg: v.intercept.lat, lonDeg: v.intercept.lon, elevationM: 0 }, Date.parse(v.intercept.utc), hold.headingDeg, hold.speedKn),
+      dt.deltaTSec, dt.ttMinusClockSec, Date.parse(v.intercept.utc))
+    for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
+      // The plan stores these to the whole millisecond (a Date truncates), then the one rounding to the second.
+      const c = clocks(Math.trunc(m[k]!.utcMs), zone)
+      expect(text, `under way ${k}`).toContain(`${c.local} ${c.utc}`)
+    }
+    const offset = v.timetable.contacts.max.utcOffset as string
+    expect(text).toContain(`UTC${offset}`)
+    expect(text).toMatch(/ISO 12312-2/)
+    expect(text).toContain(`${v.distanceNm} nm`)
+    expect(text).toContain(`Keeping way`)
+    // Every filters-off cue of the plan is printed with its ship's time.
+    for (const q of v.timetable.cues) expect(text).toContain(clocks(Date.parse(q.utc), zone).local)
+    // A traveller may not have it; a guide of no trip in the workspace finds nothing.
+    expect((await fetch(url(`/api/voyages/${v.id}/timetable.pdf`), { headers: { cookie: await signIn(TRAVELLER) } })).status).toBe(403)
+    expect((await fetch(url(`/api/voyages/${v.id}/timetable.pdf?paper=folio`), { headers: { cookie: org } })).status).toBe(400)
   })
 
   it('a guide of no trip in the workspace gets 404', async () => {

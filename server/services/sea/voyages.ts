@@ -58,7 +58,12 @@ export async function listVoyages(db: Kysely<Database>, user: User, workspaceId:
   const rows = await db.selectFrom('voyages').select(['id', 'name', 'plan', 'created_at']).where('workspace_id', '=', workspaceId).orderBy('id').execute()
   return rows.map((r) => {
     const p = JSON.parse(r.plan) as VoyagePlan
-    return { id: r.id, name: r.name, createdAt: r.created_at, intercept: p.intercept, distanceNm: p.distanceNm, departBy: p.departBy }
+    // What the planning map draws: the route (and the way home), the alternatives and the hourly positions.
+    return {
+      id: r.id, name: r.name, createdAt: r.created_at, intercept: p.intercept, distanceNm: p.distanceNm, departBy: p.departBy,
+      route: p.route, homeward: p.homeward?.route ?? null, hourly: p.hourly,
+      alternatives: p.alternatives.map((a) => ({ lat: a.lat, lon: a.lon, durationSec: a.durationSec, expectedSec: a.expectedSec })),
+    }
   })
 }
 
