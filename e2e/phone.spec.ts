@@ -100,7 +100,9 @@ test('guide pages fit a phone', async ({ page }) => {
 test('organiser pages fit a phone', async ({ page }) => {
   test.setTimeout(240_000)
   await signInAs(page, 'organiser@umbrafield.test')
-  const voyage = await page.request.post('/api/workspaces/1/voyages', {
+  // The voyage goes in a workspace of its own, so the demo workspace stays as seeded for the other browser tests.
+  const ws = (await (await page.request.post('/api/workspaces', { data: { eclipseId: '2027-08-02', name: 'Phone check (demo)' } })).json()) as { id: number }
+  const voyage = await page.request.post(`/api/workspaces/${ws.id}/voyages`, {
     data: { name: 'Phone check voyage (demo)', departure: { lat: 36.7, lon: -4.4, utc: '2027-08-01T20:00:00Z' }, speedKn: 16, minSunAltitudeDeg: 10 },
     timeout: 120_000,
   })
@@ -120,4 +122,10 @@ test('the wide-screen header keeps its links in the bar, with no menu button', a
   await expect(page.getByRole('button', { name: 'Menu' })).toBeHidden()
   await expect(page.getByRole('button', { name: 'Sign out', exact: true })).toBeVisible()
   await expect(page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People' })).toBeVisible()
+  // The trip page keeps its two columns: the booking box beside the text, the safety block in the left column.
+  await gotoHydrated(page, '/trips/1')
+  await page.screenshot({ path: 'test-results/phone/desktop-trip.png', fullPage: true })
+  const price = (await page.getByText('per seat').first().boundingBox())!
+  const safety = (await page.getByRole('note', { name: 'Eye safety' }).first().boundingBox())!
+  expect(price.x).toBeGreaterThan(safety.x + safety.width)
 })
