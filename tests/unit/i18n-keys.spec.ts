@@ -63,7 +63,7 @@ const SAME_AS_ENGLISH: Record<string, string> = {
 const SAME_WORD: Record<string, string[]> = {
   de: ['Status', 'Briefing', 'Countdown', 'hybrid', 'total'],
   es: ['total'],
-  fr: ['Briefing', 'Messages', 'horizon', 'double', 'Contact'],
+  fr: ['Briefing', 'Messages', 'horizon', 'double', 'Contact', 'Menu'],
 }
 /**
  * Keys whose texts are names or symbols rather than words: star and planet names (the IAU's names,
