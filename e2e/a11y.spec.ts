@@ -33,10 +33,14 @@ async function visit(page: Page, url: string, found: Found[], ready?: (page: Pag
 
 /** Opens every chart's data table on the page (the state a reader who cannot see the chart uses), then scans again. */
 async function withTables(page: Page, url: string, found: Found[]) {
-  const toggles = page.getByRole('button', { name: /^Show .*as a table$/ })
+  const toggles = page.getByRole('button', { name: /^Show as a table/ })
   const n = await toggles.count()
-  for (let i = 0; i < n; i++) await toggles.nth(i).click()
-  if (n > 0) found.push(...await scan(page, `${url} (tables shown)`))
+  // Each click turns its button into "Show as a chart", so the first remaining toggle is always the next one.
+  for (let i = 0; i < n; i++) await toggles.first().click()
+  if (n > 0) {
+    await expect(page.getByRole('button', { name: /^Show as a chart/ })).toHaveCount(n)
+    found.push(...await scan(page, `${url} (tables shown)`))
+  }
 }
 
 function report(found: Found[]) {
