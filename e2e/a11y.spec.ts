@@ -6,8 +6,14 @@ import { expect, gotoHydrated, signInAs, test } from './fixtures'
  * Every page, for every role that can open it, has no WCAG 2.2 A/AA violation that axe-core can find.
  * A page that fails prints each rule with its impact and the selectors of the offending nodes.
  *
- * Nothing is excluded from the scan. The MapLibre canvas is a labelled image whose text alternative is the
- * site list beside it, which axe judges like any other content.
+ * Nothing is excluded from the scan. The maps are labelled regions whose text alternative is the site list
+ * (PlanMap) or the cue list and tables beside them (VoyageMap), which axe judges like any other content.
+ *
+ * One judgement axe cannot make: a site marker on the planning map is a full 24 × 24 px button, but two sites a
+ * few kilometres apart overlap at a continental zoom. WCAG 2.5.8 exempts targets whose position is essential
+ * (a pin on a map) and targets with an equivalent control; each site also has a full-size button in the site
+ * comparison table. So a marker's target-size finding is set aside only when axe says it is "partially obscured";
+ * a marker smaller than 24 px still fails, and the test checks the equivalent buttons are there.
  */
 const TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22a', 'wcag22aa']
 
@@ -15,12 +21,17 @@ type Found = { page: string; rule: string; impact: string; nodes: string[] }
 
 async function scan(page: Page, name: string): Promise<Found[]> {
   const { violations } = await new AxeBuilder({ page }).withTags(TAGS).analyze()
-  return violations.map((v) => ({
-    page: name,
-    rule: v.id,
-    impact: v.impact ?? 'unknown',
-    nodes: v.nodes.map((n) => `${n.target.join(' ')}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, ' ').slice(0, 160)}` : ''}`),
-  }))
+  const overlappingMarker = (rule: string, n: { target: unknown[]; failureSummary?: string }) =>
+    rule === 'target-size' && String(n.target[0]).startsWith('button[aria-label="Site ') && /partially obscured/.test(n.failureSummary ?? '')
+  return violations
+    .map((v) => ({ ...v, nodes: v.nodes.filter((n) => !overlappingMarker(v.id, n)) }))
+    .filter((v) => v.nodes.length > 0)
+    .map((v) => ({
+      page: name,
+      rule: v.id,
+      impact: v.impact ?? 'unknown',
+      nodes: v.nodes.map((n) => `${n.target.join(' ')}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, ' ').slice(0, 160)}` : ''}`),
+    }))
 }
 
 /** Waits for the page's own data (no request left in flight for half a second), then scans it. */
@@ -105,6 +116,13 @@ test.describe('accessibility (axe-core, WCAG 2.2 AA)', () => {
       await withTables(page, url, found)
     }
     await visit(page, '/plan/1', found, mapReady)
+    // The equivalent of each map marker: a full-size button per site in the comparison table.
+    const markers = await page.locator('.uf-site-marker').count()
+    expect(markers).toBeGreaterThan(0)
+    await expect(page.getByRole('table', { name: 'Site comparison' }).locator('tbody button[aria-pressed]')).toHaveCount(markers)
+    for (const box of await page.locator('.uf-site-marker').evaluateAll((els) => els.map((e) => e.getBoundingClientRect()))) {
+      expect(Math.min(box.width, box.height)).toBeGreaterThanOrEqual(24)
+    }
     await withTables(page, '/plan/1', found)
     report(found)
   })
