@@ -81,6 +81,8 @@ test.describe('accessibility (axe-core, WCAG 2.2 AA)', () => {
     const found: Found[] = []
     await signInAs(page, 'traveller@umbrafield.test')
     for (const url of ['/', '/trips', '/trips/1', '/bookings', '/account']) await visit(page, url, found)
+    await gotoHydrated(page, '/trips/1')
+    await page.screenshot({ path: test.info().outputPath('trip.png'), fullPage: true })
     report(found)
   })
 
@@ -124,6 +126,8 @@ test.describe('accessibility (axe-core, WCAG 2.2 AA)', () => {
       expect(Math.min(box.width, box.height)).toBeGreaterThanOrEqual(24)
     }
     await withTables(page, '/plan/1', found)
+    // For a look at the palette and the chart tables after the contrast fixes.
+    await page.screenshot({ path: test.info().outputPath('plan-tables.png'), fullPage: true })
     report(found)
   })
 
