@@ -142,7 +142,7 @@ test('an organiser adds a candidate site and compares sites with the keyboard al
   await tabTo(page, table.getByRole('button', { name: 'Desert road (demo)', exact: true }))
   await page.keyboard.press('Space')
   await expect(page.getByRole('region', { name: 'Site Desert road (demo)' })).toBeVisible()
-  await expect(table.getByRole('button', { name: 'Desert road (demo)', exact: true })).toHaveAttribute('aria-current', 'true')
+  await expect(table.getByRole('button', { name: 'Desert road (demo)', exact: true })).toHaveAttribute('aria-pressed', 'true')
 
   // The map's markers are buttons too: reachable and usable without the pointer.
   await tabTo(page, page.getByRole('button', { name: 'Site Keyboard knoll' }), { max: 250 })

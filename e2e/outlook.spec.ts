@@ -65,6 +65,6 @@ test('the organiser opens the outlook from the trip, fetches a forecast and read
   await expect(page.getByRole('region', { name: 'Recommendation' })).toContainText('Qena plateau')
   // Each site's chart of runs has its text alternative and its data table.
   await expect(page.getByRole('img', { name: /forecast runs? for Qena plateau/ })).toBeVisible()
-  await page.getByText('Data table').first().click()
+  await page.getByRole('button', { name: /^Show as a table/ }).first().click()
   await expect(page.getByRole('table', { name: /^Forecast runs, / }).first()).toBeVisible()
 })
