@@ -318,6 +318,18 @@ async function cluster() {
     await admin.end()
     const cookies: string[] = []
     await inBatches(emails, 20, async (email, i) => { cookies[i] = cookieOf(await post(bases[i % 2]!, '/api/auth/login', { email, password: 'bench-password-123' }, '', addr(i))) })
+    // Warm-up, the same for both kinds of request: each instance serves a few probes and a few holds
+    // (on a trip of their own) first, so neither figure below includes first-call costs (code not yet
+    // optimised, the held e-mail's eclipse wording worked out, statements first prepared).
+    const warmTrip = await (await post(bases[0]!, '/api/trips', {
+      workspaceId: 1, primarySiteId: 4, title: 'Cluster bench warm-up', startDate: '2027-07-31', endDate: '2027-08-03', seats: 100, priceMinor: 1000, depositMinor: 100,
+      currency: 'eur', balanceDueDate: '2027-05-01', meetingPoint: { name: 'x', lat: 25.7, lon: 32.6, time: '2027-08-02T03:30:00Z' },
+    }, org)).json() as { id: number }
+    await post(bases[0]!, `/api/trips/${warmTrip.id}/publish`, {}, org)
+    await inBatches(cookies.slice(0, 20), 10, async (cookie, i) => {
+      await (await fetch(`${bases[i % 2]!}${process.env.BENCH_PROBE || '/api/me'}`, { headers: { cookie, 'x-forwarded-for': addr(i) } })).text()
+      await (await post(bases[i % 2]!, `/api/trips/${warmTrip.id}/bookings`, { seats: 1 }, cookie, addr(i))).text()
+    })
     // The probe: the lightest signed-in request, the same 200 at once through the same instances. A
     // hold costs more than it only by what booking adds; waiting on other holds would show here.
     const probePath = process.env.BENCH_PROBE || '/api/me'
