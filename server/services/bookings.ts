@@ -106,6 +106,9 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
       eb.selectFrom('waitlist').select((w) => w.fn.coalesce(w.fn.sum<number>('seats'), w.val(0)).as('n'))
         .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').as('myOffer'),
     ])
+    // PostgreSQL: the new booking's id comes with the same read (a sequence never hands out a number
+    // twice; one left unused by a refused hold is only a gap), so the hold's statement can link to it.
+    .$if(isPostgres(db), (q) => q.select(sql<string>`nextval(pg_get_serial_sequence('bookings', 'id'))`.as('nextId')))
     .where('trips.id', '=', tripId).executeTakeFirst()
   if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
   if (!trip.sales_open) throw new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
@@ -123,15 +126,14 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
     // PostgreSQL, no offer to take up and no hold here yet: the whole hold is one statement (see
     // holdInOneStatement). Otherwise the transaction below says which hold exists, or takes up the offer.
     const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
-    const r = await holdInOneStatement(db, { user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
-    if (r === 'sold_out') throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))
+    const r = await holdInOneStatement(db, { id: Number(trip.nextId), user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
+    // Refused for one seat means none was free when the counter was asked; for more, say how many were.
+    if (r === 'sold_out') throw new SoldOutError(seats === 1 ? 0 : Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))
     if (r === 'hold_exists') {
       const mine = await db.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').executeTakeFirstOrThrow()
       throw new HoldExistsError(mine.id, mine.seats)
     }
-    // The organisers' alert follows at once in a transaction of its own (the statement above holds
-    // the counter, the booking, the audit row and the traveller's e-mail together).
-    await db.transaction().execute((trx) => alertOrganisers(trx, { kind: 'booking', bookingId: r.id }, cfg.appUrl))
+    // The organisers' alerts were written by the same statement.
     return { id: r.id, status: 'held' as const, holdExpiresAt }
   }
   return db.transaction().execute(async (trx) => {
@@ -165,14 +167,16 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
  * The kind of eclipse at a trip's site for the held e-mail's wording, remembered for a minute per
  * eclipse and site (working it out runs the engine; a rush of holds on one trip needs it once).
  */
-const kindMemo = new Map<string, { kind: Awaited<ReturnType<typeof tripKind>>; at: number }>()
-async function tripKindSoon(db: Kysely<Database>, t: { eclipse_id: string; primary_site_id: number }) {
+const kindMemo = new Map<string, { kind: ReturnType<typeof tripKind>; at: number }>()
+function tripKindSoon(db: Kysely<Database>, t: { eclipse_id: string; primary_site_id: number }) {
   const key = `${t.eclipse_id}:${t.primary_site_id}`
   const hit = kindMemo.get(key)
   if (hit && nowMs() - hit.at < 60_000) return hit.kind
-  const kind = await tripKind(db, t)
+  // The promise is remembered, not the answer: holds arriving together wait for one working-out.
+  const kind = tripKind(db, t)
   if (kindMemo.size > 500) kindMemo.clear()
   kindMemo.set(key, { kind, at: nowMs() })
+  kind.catch(() => { if (kindMemo.get(key)?.kind === kind) kindMemo.delete(key) })
   return kind
 }
 

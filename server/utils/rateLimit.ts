@@ -39,18 +39,29 @@ async function sharedRateLimit(event: H3Event, db: Kysely<Database>, key: string
   const slotMs = windowMs / SHARED_SLOTS
   const current = Math.floor(now / slotMs)
   const slotStart = new Date(current * slotMs).toISOString()
-  await db.insertInto('rate_limit_hits')
-    .values({ key, window_start: slotStart, hits: 1, expires_at: new Date((current + SHARED_SLOTS + 2) * slotMs).toISOString() })
-    .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', 1) })))
-    .execute()
-  const rows = await db.selectFrom('rate_limit_hits').select(['window_start', 'hits']).where('key', '=', key)
-    .where('window_start', '>=', new Date((current - SHARED_SLOTS) * slotMs).toISOString()).orderBy('window_start').execute()
-  const count = rows.reduce((n, r) => n + Number(r.hits), 0)
+  // One round trip: the upsert counts this hit, and the same statement adds the window's other
+  // slots (a CTE's change is not visible to its siblings, so this slot's count comes from RETURNING).
+  const from = new Date((current - SHARED_SLOTS) * slotMs).toISOString()
+  const r = await db
+    .with('up', (w) => w.insertInto('rate_limit_hits')
+      .values({ key, window_start: slotStart, hits: 1, expires_at: new Date((current + SHARED_SLOTS + 2) * slotMs).toISOString() })
+      .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', 1) })))
+      .returning('hits'))
+    .selectFrom('up')
+    .select((eb) => [
+      'up.hits',
+      eb.selectFrom('rate_limit_hits').select((s) => s.fn.coalesce(s.fn.sum<number>('hits'), s.val(0)).as('n'))
+        .where('key', '=', key).where('window_start', '>=', from).where('window_start', '<>', slotStart).as('others'),
+      eb.selectFrom('rate_limit_hits').select((s) => s.fn.min<string>('window_start').as('w'))
+        .where('key', '=', key).where('window_start', '>=', from).where('window_start', '<>', slotStart).as('oldest'),
+    ])
+    .executeTakeFirstOrThrow()
+  const count = Number(r.hits) + Number(r.others ?? 0)
   if (count <= limit) return
   // Refused requests are not counted (as in LocalLimiter): take this one back.
   await db.updateTable('rate_limit_hits').set((eb) => ({ hits: eb('hits', '-', 1) }))
     .where('key', '=', key).where('window_start', '=', slotStart).execute()
-  const oldestSlot = Math.round(Date.parse(rows[0]!.window_start) / slotMs)
+  const oldestSlot = Math.round(Date.parse(r.oldest ?? slotStart) / slotMs)
   refuse(event, Math.max(1, Math.ceil(((oldestSlot + SHARED_SLOTS + 1) * slotMs - now) / 1000)))
 }
 

@@ -24,6 +24,8 @@ export type TripEvent =
 export const DEFAULT_ALERT_MODE: AlertMode = 'immediate'
 
 const seatWord = (n: number) => `${n} seat${n === 1 ? '' : 's'}`
+/** The line of a new hold's alert (also written by the one-statement hold, holdStatement.ts). */
+export const holdAlertSummary = (name: string, seats: number, bookingId: number) => `${name} holds ${seatWord(seats)} (booking #${bookingId})`
 
 /** The event's trip, booking and one line saying what happened (plain text; escaped where mailed). */
 async function describe(db: Db, e: TripEvent): Promise<{ tripId: number; bookingId: number | null; summary: string }> {
@@ -32,7 +34,7 @@ async function describe(db: Db, e: TripEvent): Promise<{ tripId: number; booking
   switch (e.kind) {
     case 'booking': {
       const b = await bookingOf(e.bookingId)
-      return { tripId: b.trip_id, bookingId: b.id, summary: `${b.name} holds ${seatWord(b.seats)} (booking #${b.id})` }
+      return { tripId: b.trip_id, bookingId: b.id, summary: holdAlertSummary(b.name, b.seats, b.id) }
     }
     case 'payment': {
       const p = await db.selectFrom('payments').select(['booking_id', 'amount_minor', 'currency', 'kind']).where('id', '=', e.paymentId).executeTakeFirstOrThrow()
