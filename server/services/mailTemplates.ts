@@ -1,5 +1,7 @@
 import { formatMoney } from '../../shared/schemas/trips'
 import { safetyLines, type LocalKind } from '../../shared/safety/text'
+import { languageTag } from '../../shared/i18n/locales'
+import { translator, type Params } from '../../shared/i18n/translate'
 
 export interface Mail { subject: string; html: string; text: string }
 
@@ -20,8 +22,22 @@ export function frame(title: string, bodyHtml: string, bodyText: string, footer 
 const p = (s: string) => `<p style="margin:0 0 12px">${s}</p>`
 export const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
 /** The one safety text (shared/safety/text.ts), for the kind of eclipse at the trip's site when known. */
-const safetyHtml = (kind?: LocalKind) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
-const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l) => `- ${l}`).join('\n')}`
+const safetyHtml = (kind?: LocalKind, locale?: string) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>${esc(translator(locale)('safety.title'))}</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind, locale).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
+const safetyText = (kind?: LocalKind, locale?: string) => `${translator(locale)('safety.heading')}\n${safetyLines(kind, locale).map((l) => `- ${l}`).join('\n')}`
+
+/**
+ * A translator for HTML bodies: every value is escaped unless passed in `markup` (already HTML).
+ * The messages' own text is written by us and holds no markup.
+ */
+function htmlT(t: ReturnType<typeof translator>) {
+  return (key: string, params: Params = {}, markup: Record<string, string> = {}, count?: number) =>
+    t(key, { ...Object.fromEntries(Object.entries(params).map(([k, v]) => [k, esc(String(v))])), ...markup }, count)
+}
+
+/** Money, in the reader's language (minor units and an ISO 4217 code). */
+export function money(minor: number, currency: string, locale?: string): string {
+  return new Intl.NumberFormat(languageTag(locale), { style: 'currency', currency: currency.toUpperCase() }).format(minor / 100)
+}
 
 export interface BookingMailData {
   name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string
@@ -81,19 +97,34 @@ export interface ItineraryData extends BookingMailData {
   /** The participants' briefing for the trip (what they will see at the site, and when). */
   briefingUrl: string
   organiser: { name: string; email: string }
+  /** The recipient's language (users.locale); English when unset. */
+  locale?: string
 }
 
 export function itinerary(d: ItineraryData): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const coord = new Intl.NumberFormat(languageTag(d.locale), { minimumFractionDigits: 4, maximumFractionDigits: 4, useGrouping: false })
+  const seconds = new Intl.NumberFormat(languageTag(d.locale), { maximumFractionDigits: 0 }).format(d.durationSec)
+  const centralLine = d.centralName ? t('mail.itinerary.central', { phase: d.centralName, seconds }) : t('mail.itinerary.partialHere')
+  const h2 = (s: string) => `<h2 style="font-size:16px;margin:16px 0 6px">${esc(s)}</h2>`
   const rows = d.contacts.map((c) => `<tr><td style="padding:4px 8px 4px 0">${esc(c.label)}</td><td style="padding:4px 8px;font-weight:700">${esc(c.local)}</td><td style="padding:4px 0;color:#62579b">${esc(c.utc)} UTC</td></tr>`).join('')
-  const html = p(`Hello ${esc(d.name)},`) + p(`Here is your itinerary for <strong>${esc(d.tripTitle)}</strong> (${d.seats} seat${d.seats > 1 ? 's' : ''}). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Meeting point</h2>` + p(`${esc(d.meeting.name)} — <strong>${esc(d.meeting.local)}</strong> local time (UTC${esc(d.meeting.utcOffset)}, ${esc(d.meeting.zone)}).`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. ${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s.` : 'A partial eclipse here: filters stay on throughout.'}`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Your briefing</h2>` + p('What the sky will do at the site, minute by minute, where to look, and the corona to expect:') + button(d.briefingUrl, 'Read your briefing')
-    + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
-    + safetyHtml(d.eclipseKind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
-  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nYOUR BRIEFING\nWhat the sky will do at the site, minute by minute, where to look, and the corona to expect:\n${d.briefingUrl}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
-  return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
+  const html = p(th('mail.hello', { name: d.name })) + p(th('mail.itinerary.intro', { paid: m(d.paidMinor), due: m(d.dueMinor) }, { trip: `<strong>${esc(d.tripTitle)}</strong>`, seats: t('mail.itinerary.seatsHtml', {}, d.seats) }))
+    + h2(t('mail.itinerary.meetingHeading')) + p(`${th('mail.itinerary.meetingLine', { place: d.meeting.name, offset: d.meeting.utcOffset, zone: d.meeting.zone }, { time: `<strong>${esc(d.meeting.local)}</strong>` })}.`)
+    + h2(t('mail.itinerary.siteHeading')) + p(`${esc(d.site.name)} (${coord.format(d.site.lat)}°, ${coord.format(d.site.lon)}°) — <a href="${esc(d.site.mapUrl)}">${esc(t('mail.itinerary.openInApp'))}</a>. ${esc(centralLine)}${d.centralName ? '.' : ''}`)
+    + h2(t('mail.itinerary.contactsHeading', { zone: d.site.zone })) + `<table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
+    + h2(t('mail.itinerary.briefingHeading')) + p(esc(t('mail.itinerary.briefingLead'))) + button(d.briefingUrl, t('mail.itinerary.briefingButton'))
+    + h2(t('mail.itinerary.bringHeading')) + `<ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
+    + safetyHtml(d.eclipseKind, d.locale) + p(th('mail.itinerary.questionsHtml', { organiser: d.organiser.name }, { email: `<a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>` }))
+  const text = `${t('mail.hello', { name: d.name })}\n\n${t('mail.itinerary.intro', { trip: d.tripTitle, seats: t('mail.itinerary.seatsText', { n: d.seats }), paid: m(d.paidMinor), due: m(d.dueMinor) })}\n\n`
+    + `${t('mail.itinerary.meetingHeadingText')}\n${t('mail.itinerary.meetingLine', { place: d.meeting.name, time: d.meeting.local, offset: d.meeting.utcOffset, zone: d.meeting.zone })}\n\n`
+    + `${t('mail.itinerary.siteHeadingText')}\n${d.site.name} (${coord.format(d.site.lat)}, ${coord.format(d.site.lon)}) — ${d.site.mapUrl}\n${centralLine}\n\n`
+    + `${t('mail.itinerary.contactsHeadingText', { zone: d.site.zone })}\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\n`
+    + `${t('mail.itinerary.briefingHeadingText')}\n${t('mail.itinerary.briefingLead')}\n${d.briefingUrl}\n\n`
+    + `${t('mail.itinerary.bringHeadingText')}\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind, d.locale)}\n\n`
+    + t('mail.itinerary.questionsText', { organiser: d.organiser.name, email: d.organiser.email })
+  return frame(t('mail.itinerary.subject', { trip: d.tripTitle }), html, text, t('mail.footer'))
 }
 
 export function confirmEmailMail(d: { name: string; url: string; hours: number }): Mail {

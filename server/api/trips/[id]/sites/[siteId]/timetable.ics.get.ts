@@ -11,5 +11,5 @@ export default defineEventHandler(async (event) => {
   const site = t.sites.find((s) => s.siteId === siteId)
   if (!site) throw createError({ statusCode: 404, statusMessage: 'No such site on this trip' })
   setResponseHeaders(event, { 'Content-Type': 'text/calendar; charset=utf-8', 'Content-Disposition': `attachment; filename="umbrafield-${t.trip.eclipseId}-site-${siteId}.ics"` })
-  return siteTimetableIcs(t.trip, site, t.decision?.siteId === siteId ? t.decision : null)
+  return siteTimetableIcs(t.trip, site, t.decision?.siteId === siteId ? t.decision : null, requestLocale(event, user))
 })
