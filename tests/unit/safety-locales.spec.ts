@@ -61,3 +61,31 @@ describe('translate', () => {
     expect(translate('de', 'no.such.key')).toBe('no.such.key')
   })
 })
+
+describe('cue labels in every language', () => {
+  // A total site with C2 and C3 on the disc, a planet up and the shadow's bearing known.
+  const input = (locale?: string) => ({
+    kind: 'total' as const, locale, shadowFrom: 'west-southwest', shadowFromDeg: 250,
+    planets: [{ name: 'Venus', altitudeDeg: 31.6, azimuthDeg: 100 }],
+    contacts: {
+      c1: { utcMs: 0, uncertaintySec: 1 }, c2: { utcMs: 3_600_000, uncertaintySec: 1, direction: "at upper right, about 2 o'clock", vertexAngleDeg: 300 },
+      max: { utcMs: 3_700_000, uncertaintySec: 1 }, c3: { utcMs: 3_800_000, uncertaintySec: 1, direction: "at lower left, about 8 o'clock", vertexAngleDeg: 120 },
+      c4: { utcMs: 7_200_000, uncertaintySec: 1 },
+    },
+  })
+  it('English keeps its words; German, Spanish and French use their own and keep the trade names', async () => {
+    const { planCues } = await import('../../shared/safety/cues')
+    const en = planCues(input())
+    expect(en.cues.find((c) => c.key === 'beads')!.label).toBe("Baily's beads — keep filters ON until the last bead has gone; the last light is at upper right, about 2 o'clock")
+    expect(en.cues.find((c) => c.key === 'planets')!.label).toBe('Look for Venus 32° up in the E')
+    const names = { de: ['Perlschnurphänomen', 'Diamantring', 'oben rechts, etwa bei 2 Uhr', 'Westsüdwest'], es: ['Perlas de Baily', 'anillo de diamante', 'arriba a la derecha, hacia las 2', 'oestesuroeste'], fr: ['Grains de Baily', 'anneau de diamant', 'en haut à droite, vers 2 heures', 'ouest-sud-ouest'] } as const
+    for (const locale of ['de', 'es', 'fr'] as const) {
+      const plan = planCues(input(locale))
+      // The same cues at the same instants with the same filter states: only the words change.
+      expect(plan.cues.map((c) => [c.key, c.utcMs, c.filters])).toEqual(en.cues.map((c) => [c.key, c.utcMs, c.filters]))
+      const all = plan.cues.map((c) => c.label).join('\n')
+      for (const w of names[locale]) expect(all).toContain(w)
+      plan.cues.forEach((c, i) => expect(c.label).not.toBe(en.cues[i]!.label))
+    }
+  })
+})
