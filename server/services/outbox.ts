@@ -188,10 +188,10 @@ export async function retryMessage(db: Kysely<Database>, id: number): Promise<'o
 }
 
 export async function listOutbox(db: Kysely<Database>, limit = 200) {
-  const rows = await db.selectFrom('outbox').select(['id', 'kind', 'to_email', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at', 'next_attempt_at', 'booking_id', 'trip_id'])
+  const rows = await db.selectFrom('outbox').select(['id', 'kind', 'to_email', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at', 'next_attempt_at', 'booking_id', 'trip_id', 'locale'])
     .orderBy('id', 'desc').limit(limit).execute()
   return rows.map((r) => ({
     id: r.id, kind: r.kind, to: r.to_name ? `${r.to_name} <${r.to_email}>` : r.to_email, subject: r.subject, status: r.status, attempts: r.attempts,
-    lastError: r.last_error, createdAt: r.created_at, sentAt: r.sent_at, nextAttemptAt: r.next_attempt_at, bookingId: r.booking_id, tripId: r.trip_id,
+    lastError: r.last_error, createdAt: r.created_at, sentAt: r.sent_at, nextAttemptAt: r.next_attempt_at, bookingId: r.booking_id, tripId: r.trip_id, locale: r.locale,
   }))
 }

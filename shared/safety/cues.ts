@@ -138,13 +138,18 @@ const CLOCK_PLACES: Record<number, string> = {
   6: 'bottom', 7: 'lowerLeft', 8: 'lowerLeft', 9: 'left', 10: 'upperLeft', 11: 'upperLeft',
 }
 
-/** Where a contact happens on the Sun's disc, as a clock position, in a locale; English keeps the engine's own words. */
-function whereOn(c: CueContact | undefined, locale: string | null | undefined): string | undefined {
-  if (!c?.direction) return undefined
-  if (!locale || locale === 'en' || c.vertexAngleDeg === undefined) return c.direction
-  const hour = Math.round((((360 - c.vertexAngleDeg) % 360) + 360) % 360 / 30) % 12 || 12
+/**
+ * Where a contact happens on the Sun's disc, as a clock position, in a locale. English keeps the
+ * engine's own words (`direction`); other languages build theirs from the vertex angle.
+ */
+export function contactPlaceIn(direction: string | undefined, vertexAngleDeg: number | undefined, locale: string | null | undefined): string | undefined {
+  if (!direction) return undefined
+  if (!locale || locale === 'en' || vertexAngleDeg === undefined) return direction
+  const hour = Math.round((((360 - vertexAngleDeg) % 360) + 360) % 360 / 30) % 12 || 12
   return translate(locale, 'doc.clock.at', { where: translate(locale, `doc.clock.${CLOCK_PLACES[hour]}`), hour }, hour)
 }
+
+const whereOn = (c: CueContact | undefined, locale: string | null | undefined) => contactPlaceIn(c?.direction, c?.vertexAngleDeg, locale)
 
 function labelFor(key: string, input: CueInput, atMs: number): string {
   const { contacts, locale } = input

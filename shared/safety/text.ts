@@ -16,6 +16,8 @@ export type LocalKind = 'total' | 'annular' | 'partial'
 export interface PhaseWords {
   /** e.g. "Total solar eclipse". */
   eclipseName: string
+  /** The same name within a sentence ("total solar eclipse"; German keeps its capital noun). */
+  eclipseInline: string
   /** The central phase in words ("totality", "annularity"), or null where there is none. */
   central: string | null
   contact: Record<'c1' | 'c2' | 'max' | 'c3' | 'c4', string>
@@ -25,7 +27,7 @@ export function phaseWords(kind: LocalKind, locale?: string | null): PhaseWords 
   const t = translator(locale)
   const at = (k: string) => t(`safety.phase.${kind}.${k}`)
   return {
-    eclipseName: at('name'), central: kind === 'partial' ? null : at('central'),
+    eclipseName: at('name'), eclipseInline: at('inline'), central: kind === 'partial' ? null : at('central'),
     contact: { c1: at('c1'), c2: at('c2'), max: at('max'), c3: at('c3'), c4: at('c4') },
   }
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { requestLocale } from '../../../../../utils/requestLocale'
 import { siteTimetableIcs } from '../../../../../services/calendar'
 import { assertTimetableAccess, timetable } from '../../../../../services/timetable'
 
