@@ -43,43 +43,82 @@ export interface BookingMailData {
   name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string
   /** What is seen at the trip's site, for the safety text; omitted: the general wording. */
   eclipseKind?: LocalKind
+  /** The recipient's language (users.locale); English when unset. */
+  locale?: string
+}
+
+/** A calendar date (YYYY-MM-DD) for the reader: English keeps the ISO form; other languages read it in their own format. */
+export function dateIn(isoDate: string, locale?: string): string {
+  if (!locale || locale === 'en' || !/^\d{4}-\d{2}-\d{2}$/.test(isoDate)) return isoDate
+  return new Intl.DateTimeFormat(languageTag(locale), { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${isoDate}T00:00:00Z`))
+}
+
+/** A UTC instant as "YYYY-MM-DD HH:MM" (followed by "UTC" in the message); other languages read the date in their own format. */
+function utcMinuteIn(iso: string, locale?: string): string {
+  if (!locale || locale === 'en') return iso.slice(0, 16).replace('T', ' ')
+  return `${dateIn(iso.slice(0, 10), locale)} ${iso.slice(11, 16)}`
 }
 
 export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
   const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
-  return frame(`Seats held: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText(d.eclipseKind)}`)
+  const deposit = money(d.depositMinor, d.currency, d.locale)
+  return frame(t('mail.held.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.held.html', { until }, { seats: `<strong>${esc(t('mail.seatsHtml', {}, d.seats))}</strong>`, deposit: `<strong>${esc(deposit)}</strong>` })) + button(d.bookingUrl, t('mail.held.button')) + p(esc(t('mail.held.lapse'))) + safetyHtml(d.eclipseKind, d.locale),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.held.text', { seats: t('mail.seatsText', { n: d.seats }), until, deposit })}\n${d.bookingUrl}\n\n${t('mail.held.lapse')}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
 }
 
 export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
-  return frame(`Booking confirmed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText(d.eclipseKind)}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const figures = { price: m(d.priceMinor), due: m(d.dueMinor), date: dateIn(d.balanceDueDate, d.locale) }
+  return frame(t('mail.confirmed.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.confirmed.html', figures, { paid: `<strong>${esc(m(d.paidMinor))}</strong>` }, d.seats)) + button(d.bookingUrl, t('mail.confirmed.button')) + safetyHtml(d.eclipseKind, d.locale),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.confirmed.text', { ...figures, paid: m(d.paidMinor), n: d.seats })}\n${d.bookingUrl}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
 }
 
 export function paymentReceipt(d: BookingMailData & { amountMinor: number; kind: string; reference: string | null; paidAt: string }): Mail {
-  return frame(`Receipt: ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We received <strong>${formatMoney(d.amountMinor, d.currency)}</strong> (${esc(d.kind)}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${esc(d.reference ?? '—')}.`) + p(`Paid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`) + button(d.bookingUrl, 'Your booking'),
-    `Hello ${d.name},\n\nWe received ${formatMoney(d.amountMinor, d.currency)} (${d.kind}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${d.reference ?? '—'}.\nPaid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const amount = m(d.amountMinor)
+  const kindKey = `mail.paymentKind.${d.kind}`
+  const kind = t(kindKey) === kindKey ? d.kind : t(kindKey)
+  const received = { kind, when: utcMinuteIn(d.paidAt, d.locale), ref: d.reference ?? '—' }
+  const totals = { paid: m(d.paidMinor), due: m(d.dueMinor) }
+  return frame(t('mail.receipt.subject', { amount, trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.receipt.received', received, { amount: `<strong>${esc(amount)}</strong>` })) + p(th('mail.receipt.totals', totals)) + button(d.bookingUrl, t('mail.receipt.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.receipt.received', { ...received, amount })}\n${t('mail.receipt.totals', totals)}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
 export function balanceReminder(d: BookingMailData & { balanceDueDate: string; daysBefore: number }): Mail {
-  return frame(`Balance due in ${d.daysBefore} days: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`A friendly reminder: the balance of <strong>${formatMoney(d.dueMinor, d.currency)}</strong> is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'Pay the balance'),
-    `Hello ${d.name},\n\nA friendly reminder: the balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const due = money(d.dueMinor, d.currency, d.locale)
+  const date = dateIn(d.balanceDueDate, d.locale)
+  return frame(t('mail.balance.subject', { days: d.daysBefore, trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.balance.body', { date }, { due: `<strong>${esc(due)}</strong>` })) + button(d.bookingUrl, t('mail.balance.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.balance.body', { due, date })}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
 export function refundIssued(d: BookingMailData & { amountMinor: number; reason: string }): Mail {
-  return frame(`Refund issued: ${formatMoney(d.amountMinor, d.currency)}`,
-    p(`Hello ${esc(d.name)},`) + p(`We have refunded <strong>${formatMoney(d.amountMinor, d.currency)}</strong> for ${esc(d.tripTitle)} (${esc(d.reason)}). Card refunds usually show within 5–10 working days.`) + button(d.bookingUrl, 'Your booking'),
-    `Hello ${d.name},\n\nWe have refunded ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle} (${d.reason}). Card refunds usually show within 5–10 working days.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const amount = money(d.amountMinor, d.currency, d.locale)
+  return frame(t('mail.refund.subject', { amount }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.refund.body', { trip: d.tripTitle, reason: d.reason }, { amount: `<strong>${esc(amount)}</strong>` })) + button(d.bookingUrl, t('mail.refund.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.refund.body', { amount, trip: d.tripTitle, reason: d.reason })}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
-export function waitlistOffer(d: { name: string; tripTitle: string; seats: number; offerExpiresAt: string; tripUrl: string }): Mail {
-  return frame(`A seat has freed up: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`${d.seats} seat${d.seats > 1 ? 's are' : ' is'} now held for you until <strong>${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC</strong>. Book before then to take ${d.seats > 1 ? 'them' : 'it'}.`) + button(d.tripUrl, 'Book now'),
-    `Hello ${d.name},\n\n${d.seats} seat(s) are now held for you until ${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC. Book before then:\n${d.tripUrl}`)
+export function waitlistOffer(d: { name: string; tripTitle: string; seats: number; offerExpiresAt: string; tripUrl: string; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const until = `${utcMinuteIn(d.offerExpiresAt, d.locale)} UTC`
+  return frame(t('mail.offer.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.offer.html', {}, { until: `<strong>${esc(until)}</strong>` }, d.seats)) + button(d.tripUrl, t('mail.offer.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.offer.text', { n: d.seats, until })}\n${d.tripUrl}`, t('mail.footer'))
 }
 
 export interface ItineraryData extends BookingMailData {
@@ -97,8 +136,6 @@ export interface ItineraryData extends BookingMailData {
   /** The participants' briefing for the trip (what they will see at the site, and when). */
   briefingUrl: string
   organiser: { name: string; email: string }
-  /** The recipient's language (users.locale); English when unset. */
-  locale?: string
 }
 
 export function itinerary(d: ItineraryData): Mail {

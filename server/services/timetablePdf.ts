@@ -14,7 +14,7 @@ type Timetable = Awaited<ReturnType<typeof timetable>>
 const fontPath = (weight: 400 | 600 | 700) => createRequire(import.meta.url).resolve(`@fontsource/work-sans/files/work-sans-latin-${weight}-normal.woff`)
 
 /** The embedded latin subset of Work Sans has no Greek or astronomical symbols: spell them out. */
-const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
+const plain = (t: string) => t.replace(/\u202f/g, '\u00a0').replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
 
 /** Numbers in the reader's language with a fixed count of decimals and no grouping (English reads as toFixed did). */
 function numbers(locale?: string) {
