@@ -218,13 +218,26 @@ export function tripChanged(d: { name: string; tripTitle: string; changes: Array
 }
 
 /** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
-export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind }): Mail {
-  const forLine = d.forName ? ` (for ${d.forName})` : ''
-  return frame(`Eclipse day: we go to ${d.siteName}`,
-    p(`Hello ${esc(d.name)}${esc(forLine)},`) + p(`For <strong>${esc(d.tripTitle)}</strong> we observe from <strong>${esc(d.siteName)}</strong>.`)
-      + p(`Meet at <strong>${esc(d.meetingPoint)}</strong>; we leave at <strong>${esc(d.departLocal)}</strong> local time (${esc(d.departUtc)} UTC).`)
-      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, 'I have seen this') + p('Please press the button on that page so your guide knows you have it.') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name}${forLine},\n\nFor ${d.tripTitle} we observe from ${d.siteName}.\nMeet at ${d.meetingPoint}; we leave at ${d.departLocal} local time (${d.departUtc} UTC).\n${d.message ? `\n${d.message}\n` : ''}\nPlease confirm you have seen this (open the link and press the button):\n${d.ackUrl}\n\n${safetyText(d.eclipseKind)}`)
+export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const hello = (f: (key: string, params: Params) => string) => d.forName ? f('mail.decision.helloFor', { name: d.name, for: d.forName }) : f('mail.hello', { name: d.name })
+  const meet = { place: d.meetingPoint, time: d.departLocal, utc: d.departUtc }
+  return frame(t('mail.decision.subject', { site: d.siteName }),
+    p(hello((k, v) => th(k, v))) + p(th('mail.decision.observe', {}, { trip: `<strong>${esc(d.tripTitle)}</strong>`, site: `<strong>${esc(d.siteName)}</strong>` }))
+      + p(th('mail.decision.meet', { utc: d.departUtc }, { place: `<strong>${esc(d.meetingPoint)}</strong>`, time: `<strong>${esc(d.departLocal)}</strong>` }))
+      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, t('mail.decision.button')) + p(esc(t('mail.decision.press'))) + safetyHtml(d.eclipseKind, d.locale),
+    `${hello((k, v) => t(k, v))}\n\n${t('mail.decision.observe', { trip: d.tripTitle, site: d.siteName })}\n${t('mail.decision.meet', meet)}\n${d.message ? `\n${d.message}\n` : ''}\n${t('mail.decision.confirmText')}\n${d.ackUrl}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
+}
+
+/** The decision as an SMS, and as a push notification's title and body, in the recipient's language. */
+export function decisionShortTexts(d: { tripTitle: string; siteName: string; meetingPoint: string; departLocal: string; ackUrl: string; locale?: string }) {
+  const t = translator(d.locale)
+  return {
+    sms: t('mail.decision.sms', { trip: d.tripTitle, site: d.siteName, place: d.meetingPoint, time: d.departLocal.slice(0, 16).replace('T', ' '), url: d.ackUrl }),
+    pushTitle: t('mail.decision.pushTitle', { site: d.siteName }),
+    pushBody: t('mail.decision.pushBody', { place: d.meetingPoint, time: d.departLocal.slice(11, 16) }),
+  }
 }
 
 /** Travellers whose participant details are incomplete (45 and 14 days before the trip, or an organiser's nudge). */
