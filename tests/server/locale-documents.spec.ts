@@ -3,7 +3,7 @@ import { simpleParser } from 'mailparser'
 import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs'
 import { afterAll, describe, expect, it } from 'vitest'
 import { openDatabase } from '../../server/database/connection'
-import { api, caughtMail, MAIL_CATCHER, ORGANISER, signIn, TEST_DB, TRAVELLER2, useApp } from './app'
+import { api, caughtMail, MAIL_CATCHER, ORGANISER, signIn, TEST_DB, TRAVELLER, TRAVELLER2, useApp } from './app'
 
 // A traveller who reads German gets the itinerary, its calendar file and the documents in German;
 // English readers keep the English text.
@@ -108,5 +108,19 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
     } finally {
       await db.updateTable('users').set({ locale: 'en' }).where('email', '=', ORGANISER).execute()
     }
+  })
+  it('a French traveller gets the hold e-mail in French, with the French safety text', async () => {
+    await db.updateTable('users').set({ locale: 'fr' }).where('email', '=', TRAVELLER).execute()
+    const hold = await api('/api/trips/1/bookings', { method: 'POST', body: { seats: 2 }, cookie: await signIn(TRAVELLER) })
+    expect(hold.status).toBe(201)
+    const mail = await caughtMail(TRAVELLER, /^Places retenues/, { containing: `:${new URL(url('/')).port}/bookings/${hold.body.id}` })
+    expect(mail.text).toContain('Bonjour ')
+    expect(mail.text).toContain('Nous vous réservons 2 place(s) jusqu’à ')
+    expect(mail.text).toContain('PROTECTION DES YEUX')
+    expect(mail.text).toContain('ISO 12312-2')
+    expect(mail.html).toContain('<strong>2 places</strong>')
+    expect(mail.text).not.toMatch(/Hello|We are holding|EYE SAFETY/)
+    const out = await api('/api/outbox', { cookie: await signIn(ORGANISER) })
+    expect(out.body.data.find((m: { kind: string; bookingId: number }) => m.kind === 'booking-held' && m.bookingId === hold.body.id).locale).toBe('fr')
   })
 })
