@@ -60,10 +60,10 @@ export function translate(locale: string | null | undefined, key: string, params
   const code: LocaleCode = isLocale(locale) ? locale : DEFAULT_LOCALE
   const message = lookup(code, key) ?? lookup(DEFAULT_LOCALE, key)
   if (message === undefined) return key
-  if (count === undefined) return interpolate(message, params)
   const choices = message.split('|').map((s) => s.trim())
-  const picked = choices.length > 1 ? choices[Math.min(choiceIndex(count, choices.length), choices.length - 1)]! : message
-  return interpolate(picked, { count, n: count, ...params })
+  // Without a count vue-i18n still picks a choice, as if the count were one (its plural index −1).
+  const picked = choices.length > 1 ? choices[Math.min(choiceIndex(count ?? -1, choices.length), choices.length - 1)]! : message
+  return interpolate(picked, count === undefined ? params : { count, n: count, ...params })
 }
 
 /** A translator bound to one locale: `t('mail.hello', { name })`, `t('mail.seats', {}, 2)`. */
