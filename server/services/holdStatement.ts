@@ -26,7 +26,7 @@ export async function holdInOneStatement(db: Kysely<Database>, a: {
   const depositMinor = seats * trip.deposit_minor
   const mail = T.bookingHeld({
     name: user.name, tripTitle: trip.title, seats, currency: trip.currency, priceMinor, paidMinor: 0, dueMinor: depositMinor,
-    bookingUrl: `${a.appUrl}/bookings/${id}`, eclipseKind: a.kind, holdExpiresAt: a.holdExpiresAt, depositMinor,
+    bookingUrl: `${a.appUrl}/bookings/${id}`, eclipseKind: a.kind, holdExpiresAt: a.holdExpiresAt, depositMinor, locale: user.locale,
   })
   try {
     await db
@@ -39,7 +39,7 @@ export async function holdInOneStatement(db: Kysely<Database>, a: {
         price_minor: priceMinor, deposit_minor: depositMinor, currency: trip.currency,
       }).returning('id'))
       .with('a', (w) => w.insertInto('audit_log').values(auditValues({ action: 'booking_hold', actorUserId: user.id, detail: { bookingId: id, tripId: trip.id, seats } })).returning('id'))
-      .insertInto('outbox').values(outboxValues({ kind: 'booking-held', to: { email: user.email, name: user.name }, bookingId: id, tripId: trip.id, ...mail }))
+      .insertInto('outbox').values(outboxValues({ kind: 'booking-held', to: { email: user.email, name: user.name }, locale: user.locale, bookingId: id, tripId: trip.id, ...mail }))
       .execute()
   } catch (e) {
     const code = (e as { code?: string }).code

@@ -109,6 +109,7 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
       await db.updateTable('users').set({ locale: 'en' }).where('email', '=', ORGANISER).execute()
     }
   })
+  // On PostgreSQL a hold is written in one statement (server/services/holdStatement.ts); on SQLite in a transaction: both must speak French.
   it('a French traveller gets the hold e-mail in French, with the French safety text', async () => {
     await db.updateTable('users').set({ locale: 'fr' }).where('email', '=', TRAVELLER).execute()
     const hold = await api('/api/trips/1/bookings', { method: 'POST', body: { seats: 2 }, cookie: await signIn(TRAVELLER) })
