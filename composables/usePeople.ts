@@ -1,5 +1,5 @@
 import type { PublicUser } from '#shared/schemas/auth'
 
 export function usePeople() {
-  return useFetch<{ data: PublicUser[]; meta: { total: number } }>('/api/users', { key: 'people' })
+  return useFetch<{ data: Array<PublicUser & { locale?: string }>; meta: { total: number } }>('/api/users', { key: 'people' })
 }

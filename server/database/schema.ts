@@ -289,6 +289,8 @@ export interface OutboxTable {
    * "outbox:<message_id>"; the bodies hold a placeholder instead. Cleared once sent or given up.
    */
   sealed_secret: ColumnType<string | null, string | null | undefined, string | null>
+  /** The language the message was written in, a code from shared/i18n/locales.ts (migration 0026). */
+  locale: Auto<string>
 }
 
 /** A one-time link that sets a password: a reset (one hour) or an invitation (seven days). */

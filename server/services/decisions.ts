@@ -81,14 +81,17 @@ interface NoticeContext {
 async function queueNotice(trx: Transaction<Database>, ctx: NoticeContext, r: { id: number; kind: 'participant' | 'guide'; seat: number | null; userId: number | null; name: string; email: string | null; holderName: string; phone: string | null }, token: string) {
   const ackUrl = `${ctx.appUrl}/ack/${SECRET_TOKEN}`
   const forName = r.kind === 'participant' && r.seat !== 1 ? r.name : undefined
+  // Every channel speaks the account's language (a participant's notice goes in the booking holder's).
+  const locale = r.userId ? (await trx.selectFrom('users').select('locale').where('id', '=', r.userId).executeTakeFirst())?.locale : undefined
   if (r.email) {
     const mail = T.decisionMail({
       name: r.holderName, forName, tripTitle: ctx.tripTitle, siteName: ctx.siteName, departLocal: ctx.departLocal, departUtc: ctx.departAt.slice(11, 16),
-      meetingPoint: ctx.meetingPoint, message: ctx.message, ackUrl, eclipseKind: ctx.kind,
+      meetingPoint: ctx.meetingPoint, message: ctx.message, ackUrl, eclipseKind: ctx.kind, locale,
     })
-    await enqueueMail(trx, { kind: 'decision', to: { email: r.email, name: r.holderName }, tripId: ctx.tripId, dedupeKey: mailKey(r.id), secret: token, ...mail })
+    await enqueueMail(trx, { kind: 'decision', to: { email: r.email, name: r.holderName }, locale, tripId: ctx.tripId, dedupeKey: mailKey(r.id), secret: token, ...mail })
   }
-  const text = `${ctx.tripTitle}: we go to ${ctx.siteName}. Meet at ${ctx.meetingPoint}, leaving ${ctx.departLocal.slice(0, 16).replace('T', ' ')} local. Please confirm you have seen this: ${ackUrl}`
+  const short = T.decisionShortTexts({ tripTitle: ctx.tripTitle, siteName: ctx.siteName, meetingPoint: ctx.meetingPoint, departLocal: ctx.departLocal, ackUrl, locale })
+  const text = short.sms
   const queue = async (channel: 'sms' | 'push', body: string, extra: { to?: string; subscriptionId?: number }) => {
     const messageId = randomUUID()
     await trx.insertInto('decision_messages').values({
@@ -99,7 +102,7 @@ async function queueNotice(trx: Transaction<Database>, ctx: NoticeContext, r: { 
   if (r.phone) await queue('sms', text, { to: r.phone })
   if (r.userId && (r.kind === 'guide' || r.seat === 1)) {
     const subs = await trx.selectFrom('push_subscriptions').select('id').where('user_id', '=', r.userId).where('gone_at', 'is', null).execute()
-    const payload = JSON.stringify({ title: `Eclipse day: ${ctx.siteName}`, body: `Meet at ${ctx.meetingPoint}, leaving ${ctx.departLocal.slice(11, 16)} local. Tap to confirm.`, url: ackUrl })
+    const payload = JSON.stringify({ title: short.pushTitle, body: short.pushBody, url: ackUrl })
     for (const s of subs) await queue('push', payload, { subscriptionId: s.id })
   }
 }

@@ -32,7 +32,7 @@ export async function holdInOneStatement(db: Kysely<Database>, a: {
   const depositMinor = seats * trip.deposit_minor
   const mail = T.bookingHeld({
     name: user.name, tripTitle: trip.title, seats, currency: trip.currency, priceMinor, paidMinor: 0, dueMinor: depositMinor,
-    bookingUrl: `${a.appUrl}/bookings/${id}`, eclipseKind: a.kind, holdExpiresAt: a.holdExpiresAt, depositMinor,
+    bookingUrl: `${a.appUrl}/bookings/${id}`, eclipseKind: a.kind, holdExpiresAt: a.holdExpiresAt, depositMinor, locale: user.locale,
   })
   // The organisers' alert, as alertOrganisers writes it: the same line and mail for every organiser.
   const at = nowIso()
@@ -68,7 +68,7 @@ export async function holdInOneStatement(db: Kysely<Database>, a: {
             sql<string>`${organiserMail.next_attempt_at}`.as('next_attempt_at'), sql<number>`${id}`.as('booking_id'), sql<number>`${trip.id}`.as('trip_id')])
           .where('users.role', '=', 'organiser').where(delivery, '=', 'immediate'))
         .returning('id'))
-      .insertInto('outbox').values(outboxValues({ kind: 'booking-held', to: { email: user.email, name: user.name }, bookingId: id, tripId: trip.id, ...mail }))
+      .insertInto('outbox').values(outboxValues({ kind: 'booking-held', to: { email: user.email, name: user.name }, locale: user.locale, bookingId: id, tripId: trip.id, ...mail }))
       .execute()
   } catch (e) {
     const code = (e as { code?: string }).code

@@ -1,5 +1,7 @@
 import { formatMoney } from '../../shared/schemas/trips'
 import { safetyLines, type LocalKind } from '../../shared/safety/text'
+import { languageTag } from '../../shared/i18n/locales'
+import { translator, type Params } from '../../shared/i18n/translate'
 
 export interface Mail { subject: string; html: string; text: string }
 
@@ -20,50 +22,103 @@ export function frame(title: string, bodyHtml: string, bodyText: string, footer 
 const p = (s: string) => `<p style="margin:0 0 12px">${s}</p>`
 export const button = (href: string, label: string) => `<p style="margin:16px 0"><a href="${esc(href)}" style="background:#eeae33;color:#1a1633;padding:10px 16px;border-radius:6px;font-weight:700;text-decoration:none">${esc(label)}</a></p>`
 /** The one safety text (shared/safety/text.ts), for the kind of eclipse at the trip's site when known. */
-const safetyHtml = (kind?: LocalKind) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>Eye safety</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
-const safetyText = (kind?: LocalKind) => `EYE SAFETY\n${safetyLines(kind).map((l) => `- ${l}`).join('\n')}`
+const safetyHtml = (kind?: LocalKind, locale?: string) => `<div style="border-left:4px solid #c9453a;background:#fdf2f1;padding:10px 14px;margin:16px 0"><strong>${esc(translator(locale)('safety.title'))}</strong><ul style="margin:6px 0 0 18px;padding:0">${safetyLines(kind, locale).map((l) => `<li>${esc(l)}</li>`).join('')}</ul></div>`
+const safetyText = (kind?: LocalKind, locale?: string) => `${translator(locale)('safety.heading')}\n${safetyLines(kind, locale).map((l) => `- ${l}`).join('\n')}`
+
+/**
+ * A translator for HTML bodies: every value is escaped unless passed in `markup` (already HTML).
+ * The messages' own text is written by us and holds no markup.
+ */
+function htmlT(t: ReturnType<typeof translator>) {
+  return (key: string, params: Params = {}, markup: Record<string, string> = {}, count?: number) =>
+    t(key, { ...Object.fromEntries(Object.entries(params).map(([k, v]) => [k, esc(String(v))])), ...markup }, count)
+}
+
+/** Money, in the reader's language (minor units and an ISO 4217 code). */
+export function money(minor: number, currency: string, locale?: string): string {
+  return new Intl.NumberFormat(languageTag(locale), { style: 'currency', currency: currency.toUpperCase() }).format(minor / 100)
+}
 
 export interface BookingMailData {
   name: string; tripTitle: string; seats: number; currency: string; priceMinor: number; paidMinor: number; dueMinor: number; bookingUrl: string
   /** What is seen at the trip's site, for the safety text; omitted: the general wording. */
   eclipseKind?: LocalKind
+  /** The recipient's language (users.locale); English when unset. */
+  locale?: string
+}
+
+/** A calendar date (YYYY-MM-DD) for the reader: English keeps the ISO form; other languages read it in their own format. */
+export function dateIn(isoDate: string, locale?: string): string {
+  if (!locale || locale === 'en' || !/^\d{4}-\d{2}-\d{2}$/.test(isoDate)) return isoDate
+  return new Intl.DateTimeFormat(languageTag(locale), { dateStyle: 'long', timeZone: 'UTC' }).format(new Date(`${isoDate}T00:00:00Z`))
+}
+
+/** A UTC instant as "YYYY-MM-DD HH:MM" (followed by "UTC" in the message); other languages read the date in their own format. */
+function utcMinuteIn(iso: string, locale?: string): string {
+  if (!locale || locale === 'en') return iso.slice(0, 16).replace('T', ' ')
+  return `${dateIn(iso.slice(0, 10), locale)} ${iso.slice(11, 16)}`
 }
 
 export function bookingHeld(d: BookingMailData & { holdExpiresAt: string; depositMinor: number }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
   const until = `${d.holdExpiresAt.slice(11, 16)} UTC`
-  return frame(`Seats held: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We are holding <strong>${d.seats} seat${d.seats > 1 ? 's' : ''}</strong> for you until ${until}. Pay the deposit of <strong>${formatMoney(d.depositMinor, d.currency)}</strong> to confirm them.`) + button(d.bookingUrl, 'Pay the deposit') + p('If the hold lapses unpaid, the seats go back on sale.') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name},\n\nWe are holding ${d.seats} seat(s) for you until ${until}. Pay the deposit of ${formatMoney(d.depositMinor, d.currency)} to confirm them:\n${d.bookingUrl}\n\nIf the hold lapses unpaid, the seats go back on sale.\n\n${safetyText(d.eclipseKind)}`)
+  const deposit = money(d.depositMinor, d.currency, d.locale)
+  return frame(t('mail.held.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.held.html', { until }, { seats: `<strong>${esc(t('mail.seatsHtml', {}, d.seats))}</strong>`, deposit: `<strong>${esc(deposit)}</strong>` })) + button(d.bookingUrl, t('mail.held.button')) + p(esc(t('mail.held.lapse'))) + safetyHtml(d.eclipseKind, d.locale),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.held.text', { seats: t('mail.seatsText', { n: d.seats }), until, deposit })}\n${d.bookingUrl}\n\n${t('mail.held.lapse')}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
 }
 
 export function bookingConfirmed(d: BookingMailData & { balanceDueDate: string }): Mail {
-  return frame(`Booking confirmed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`Your ${d.seats} seat${d.seats > 1 ? 's are' : ' is'} confirmed. Paid so far: <strong>${formatMoney(d.paidMinor, d.currency)}</strong> of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'See your booking') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name},\n\nYour ${d.seats} seat(s) are confirmed. Paid so far: ${formatMoney(d.paidMinor, d.currency)} of ${formatMoney(d.priceMinor, d.currency)}. The balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}\n\n${safetyText(d.eclipseKind)}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const figures = { price: m(d.priceMinor), due: m(d.dueMinor), date: dateIn(d.balanceDueDate, d.locale) }
+  return frame(t('mail.confirmed.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.confirmed.html', figures, { paid: `<strong>${esc(m(d.paidMinor))}</strong>` }, d.seats)) + button(d.bookingUrl, t('mail.confirmed.button')) + safetyHtml(d.eclipseKind, d.locale),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.confirmed.text', { ...figures, paid: m(d.paidMinor), n: d.seats })}\n${d.bookingUrl}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
 }
 
 export function paymentReceipt(d: BookingMailData & { amountMinor: number; kind: string; reference: string | null; paidAt: string }): Mail {
-  return frame(`Receipt: ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`We received <strong>${formatMoney(d.amountMinor, d.currency)}</strong> (${esc(d.kind)}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${esc(d.reference ?? '—')}.`) + p(`Paid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`) + button(d.bookingUrl, 'Your booking'),
-    `Hello ${d.name},\n\nWe received ${formatMoney(d.amountMinor, d.currency)} (${d.kind}) on ${d.paidAt.slice(0, 16).replace('T', ' ')} UTC. Reference: ${d.reference ?? '—'}.\nPaid in total: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const amount = m(d.amountMinor)
+  const kindKey = `mail.paymentKind.${d.kind}`
+  const kind = t(kindKey) === kindKey ? d.kind : t(kindKey)
+  const received = { kind, when: utcMinuteIn(d.paidAt, d.locale), ref: d.reference ?? '—' }
+  const totals = { paid: m(d.paidMinor), due: m(d.dueMinor) }
+  return frame(t('mail.receipt.subject', { amount, trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.receipt.received', received, { amount: `<strong>${esc(amount)}</strong>` })) + p(th('mail.receipt.totals', totals)) + button(d.bookingUrl, t('mail.receipt.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.receipt.received', { ...received, amount })}\n${t('mail.receipt.totals', totals)}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
 export function balanceReminder(d: BookingMailData & { balanceDueDate: string; daysBefore: number }): Mail {
-  return frame(`Balance due in ${d.daysBefore} days: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`A friendly reminder: the balance of <strong>${formatMoney(d.dueMinor, d.currency)}</strong> is due by ${d.balanceDueDate}.`) + button(d.bookingUrl, 'Pay the balance'),
-    `Hello ${d.name},\n\nA friendly reminder: the balance of ${formatMoney(d.dueMinor, d.currency)} is due by ${d.balanceDueDate}.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const due = money(d.dueMinor, d.currency, d.locale)
+  const date = dateIn(d.balanceDueDate, d.locale)
+  return frame(t('mail.balance.subject', { days: d.daysBefore, trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.balance.body', { date }, { due: `<strong>${esc(due)}</strong>` })) + button(d.bookingUrl, t('mail.balance.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.balance.body', { due, date })}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
 export function refundIssued(d: BookingMailData & { amountMinor: number; reason: string }): Mail {
-  return frame(`Refund issued: ${formatMoney(d.amountMinor, d.currency)}`,
-    p(`Hello ${esc(d.name)},`) + p(`We have refunded <strong>${formatMoney(d.amountMinor, d.currency)}</strong> for ${esc(d.tripTitle)} (${esc(d.reason)}). Card refunds usually show within 5–10 working days.`) + button(d.bookingUrl, 'Your booking'),
-    `Hello ${d.name},\n\nWe have refunded ${formatMoney(d.amountMinor, d.currency)} for ${d.tripTitle} (${d.reason}). Card refunds usually show within 5–10 working days.\n${d.bookingUrl}`)
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const amount = money(d.amountMinor, d.currency, d.locale)
+  return frame(t('mail.refund.subject', { amount }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.refund.body', { trip: d.tripTitle, reason: d.reason }, { amount: `<strong>${esc(amount)}</strong>` })) + button(d.bookingUrl, t('mail.refund.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.refund.body', { amount, trip: d.tripTitle, reason: d.reason })}\n${d.bookingUrl}`, t('mail.footer'))
 }
 
-export function waitlistOffer(d: { name: string; tripTitle: string; seats: number; offerExpiresAt: string; tripUrl: string }): Mail {
-  return frame(`A seat has freed up: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`${d.seats} seat${d.seats > 1 ? 's are' : ' is'} now held for you until <strong>${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC</strong>. Book before then to take ${d.seats > 1 ? 'them' : 'it'}.`) + button(d.tripUrl, 'Book now'),
-    `Hello ${d.name},\n\n${d.seats} seat(s) are now held for you until ${d.offerExpiresAt.slice(0, 16).replace('T', ' ')} UTC. Book before then:\n${d.tripUrl}`)
+export function waitlistOffer(d: { name: string; tripTitle: string; seats: number; offerExpiresAt: string; tripUrl: string; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const until = `${utcMinuteIn(d.offerExpiresAt, d.locale)} UTC`
+  return frame(t('mail.offer.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.offer.html', {}, { until: `<strong>${esc(until)}</strong>` }, d.seats)) + button(d.tripUrl, t('mail.offer.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.offer.text', { n: d.seats, until })}\n${d.tripUrl}`, t('mail.footer'))
 }
 
 export interface ItineraryData extends BookingMailData {
@@ -84,16 +139,29 @@ export interface ItineraryData extends BookingMailData {
 }
 
 export function itinerary(d: ItineraryData): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const m = (minor: number) => money(minor, d.currency, d.locale)
+  const coord = new Intl.NumberFormat(languageTag(d.locale), { minimumFractionDigits: 4, maximumFractionDigits: 4, useGrouping: false })
+  const seconds = new Intl.NumberFormat(languageTag(d.locale), { maximumFractionDigits: 0 }).format(d.durationSec)
+  const centralLine = d.centralName ? t('mail.itinerary.central', { phase: d.centralName, seconds }) : t('mail.itinerary.partialHere')
+  const h2 = (s: string) => `<h2 style="font-size:16px;margin:16px 0 6px">${esc(s)}</h2>`
   const rows = d.contacts.map((c) => `<tr><td style="padding:4px 8px 4px 0">${esc(c.label)}</td><td style="padding:4px 8px;font-weight:700">${esc(c.local)}</td><td style="padding:4px 0;color:#62579b">${esc(c.utc)} UTC</td></tr>`).join('')
-  const html = p(`Hello ${esc(d.name)},`) + p(`Here is your itinerary for <strong>${esc(d.tripTitle)}</strong> (${d.seats} seat${d.seats > 1 ? 's' : ''}). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Meeting point</h2>` + p(`${esc(d.meeting.name)} — <strong>${esc(d.meeting.local)}</strong> local time (UTC${esc(d.meeting.utcOffset)}, ${esc(d.meeting.zone)}).`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Observing site</h2>` + p(`${esc(d.site.name)} (${d.site.lat.toFixed(4)}°, ${d.site.lon.toFixed(4)}°) — <a href="${esc(d.site.mapUrl)}">open in Umbrafield</a>. ${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s.` : 'A partial eclipse here: filters stay on throughout.'}`)
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Contact times (${esc(d.site.zone)})</h2><table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
-    + `<h2 style="font-size:16px;margin:16px 0 6px">Your briefing</h2>` + p('What the sky will do at the site, minute by minute, where to look, and the corona to expect:') + button(d.briefingUrl, 'Read your briefing')
-    + `<h2 style="font-size:16px;margin:16px 0 6px">What to bring</h2><ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
-    + safetyHtml(d.eclipseKind) + p(`Questions? Contact ${esc(d.organiser.name)} at <a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>. The attached calendar file holds the meeting and the contact times.`)
-  const text = `Hello ${d.name},\n\nHere is your itinerary for ${d.tripTitle} (${d.seats} seat(s)). Paid: ${formatMoney(d.paidMinor, d.currency)}; still owed: ${formatMoney(d.dueMinor, d.currency)}.\n\nMEETING POINT\n${d.meeting.name} — ${d.meeting.local} local time (UTC${d.meeting.utcOffset}, ${d.meeting.zone})\n\nOBSERVING SITE\n${d.site.name} (${d.site.lat.toFixed(4)}, ${d.site.lon.toFixed(4)}) — ${d.site.mapUrl}\n${d.centralName ? `${d.centralName}: ${d.durationSec.toFixed(0)} s` : 'A partial eclipse here: filters stay on throughout.'}\n\nCONTACT TIMES (${d.site.zone})\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\nYOUR BRIEFING\nWhat the sky will do at the site, minute by minute, where to look, and the corona to expect:\n${d.briefingUrl}\n\nWHAT TO BRING\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind)}\n\nQuestions? ${d.organiser.name} <${d.organiser.email}>. The attached calendar file holds the meeting and the contact times.`
-  return frame(`Your eclipse itinerary: ${d.tripTitle}`, html, text)
+  const html = p(th('mail.hello', { name: d.name })) + p(th('mail.itinerary.intro', { paid: m(d.paidMinor), due: m(d.dueMinor) }, { trip: `<strong>${esc(d.tripTitle)}</strong>`, seats: t('mail.itinerary.seatsHtml', {}, d.seats) }))
+    + h2(t('mail.itinerary.meetingHeading')) + p(`${th('mail.itinerary.meetingLine', { place: d.meeting.name, offset: d.meeting.utcOffset, zone: d.meeting.zone }, { time: `<strong>${esc(d.meeting.local)}</strong>` })}.`)
+    + h2(t('mail.itinerary.siteHeading')) + p(`${esc(d.site.name)} (${coord.format(d.site.lat)}°, ${coord.format(d.site.lon)}°) — <a href="${esc(d.site.mapUrl)}">${esc(t('mail.itinerary.openInApp'))}</a>. ${esc(centralLine)}${d.centralName ? '.' : ''}`)
+    + h2(t('mail.itinerary.contactsHeading', { zone: d.site.zone })) + `<table role="presentation" style="border-collapse:collapse;font-size:14px">${rows}</table>` + `<p style="margin:6px 0 12px;color:#62579b;font-size:12px">${esc(d.timeLine)}</p>`
+    + h2(t('mail.itinerary.briefingHeading')) + p(esc(t('mail.itinerary.briefingLead'))) + button(d.briefingUrl, t('mail.itinerary.briefingButton'))
+    + h2(t('mail.itinerary.bringHeading')) + `<ul style="margin:0 0 12px 18px;padding:0">${d.bring.map((b) => `<li>${esc(b)}</li>`).join('')}</ul>`
+    + safetyHtml(d.eclipseKind, d.locale) + p(th('mail.itinerary.questionsHtml', { organiser: d.organiser.name }, { email: `<a href="mailto:${esc(d.organiser.email)}">${esc(d.organiser.email)}</a>` }))
+  const text = `${t('mail.hello', { name: d.name })}\n\n${t('mail.itinerary.intro', { trip: d.tripTitle, seats: t('mail.itinerary.seatsText', { n: d.seats }), paid: m(d.paidMinor), due: m(d.dueMinor) })}\n\n`
+    + `${t('mail.itinerary.meetingHeadingText')}\n${t('mail.itinerary.meetingLine', { place: d.meeting.name, time: d.meeting.local, offset: d.meeting.utcOffset, zone: d.meeting.zone })}\n\n`
+    + `${t('mail.itinerary.siteHeadingText')}\n${d.site.name} (${coord.format(d.site.lat)}, ${coord.format(d.site.lon)}) — ${d.site.mapUrl}\n${centralLine}\n\n`
+    + `${t('mail.itinerary.contactsHeadingText', { zone: d.site.zone })}\n${d.contacts.map((c) => `${c.label.padEnd(28)} ${c.local}   (${c.utc} UTC)`).join('\n')}\n${d.timeLine}\n\n`
+    + `${t('mail.itinerary.briefingHeadingText')}\n${t('mail.itinerary.briefingLead')}\n${d.briefingUrl}\n\n`
+    + `${t('mail.itinerary.bringHeadingText')}\n${d.bring.map((b) => `- ${b}`).join('\n')}\n\n${safetyText(d.eclipseKind, d.locale)}\n\n`
+    + t('mail.itinerary.questionsText', { organiser: d.organiser.name, email: d.organiser.email })
+  return frame(t('mail.itinerary.subject', { trip: d.tripTitle }), html, text, t('mail.footer'))
 }
 
 export function confirmEmailMail(d: { name: string; url: string; hours: number }): Mail {
@@ -150,13 +218,26 @@ export function tripChanged(d: { name: string; tripTitle: string; changes: Array
 }
 
 /** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
-export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind }): Mail {
-  const forLine = d.forName ? ` (for ${d.forName})` : ''
-  return frame(`Eclipse day: we go to ${d.siteName}`,
-    p(`Hello ${esc(d.name)}${esc(forLine)},`) + p(`For <strong>${esc(d.tripTitle)}</strong> we observe from <strong>${esc(d.siteName)}</strong>.`)
-      + p(`Meet at <strong>${esc(d.meetingPoint)}</strong>; we leave at <strong>${esc(d.departLocal)}</strong> local time (${esc(d.departUtc)} UTC).`)
-      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, 'I have seen this') + p('Please press the button on that page so your guide knows you have it.') + safetyHtml(d.eclipseKind),
-    `Hello ${d.name}${forLine},\n\nFor ${d.tripTitle} we observe from ${d.siteName}.\nMeet at ${d.meetingPoint}; we leave at ${d.departLocal} local time (${d.departUtc} UTC).\n${d.message ? `\n${d.message}\n` : ''}\nPlease confirm you have seen this (open the link and press the button):\n${d.ackUrl}\n\n${safetyText(d.eclipseKind)}`)
+export function decisionMail(d: { name: string; tripTitle: string; siteName: string; departLocal: string; departUtc: string; meetingPoint: string; message: string | null; ackUrl: string; forName?: string; eclipseKind?: LocalKind; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const hello = (f: (key: string, params: Params) => string) => d.forName ? f('mail.decision.helloFor', { name: d.name, for: d.forName }) : f('mail.hello', { name: d.name })
+  const meet = { place: d.meetingPoint, time: d.departLocal, utc: d.departUtc }
+  return frame(t('mail.decision.subject', { site: d.siteName }),
+    p(hello((k, v) => th(k, v))) + p(th('mail.decision.observe', {}, { trip: `<strong>${esc(d.tripTitle)}</strong>`, site: `<strong>${esc(d.siteName)}</strong>` }))
+      + p(th('mail.decision.meet', { utc: d.departUtc }, { place: `<strong>${esc(d.meetingPoint)}</strong>`, time: `<strong>${esc(d.departLocal)}</strong>` }))
+      + (d.message ? p(esc(d.message)) : '') + button(d.ackUrl, t('mail.decision.button')) + p(esc(t('mail.decision.press'))) + safetyHtml(d.eclipseKind, d.locale),
+    `${hello((k, v) => t(k, v))}\n\n${t('mail.decision.observe', { trip: d.tripTitle, site: d.siteName })}\n${t('mail.decision.meet', meet)}\n${d.message ? `\n${d.message}\n` : ''}\n${t('mail.decision.confirmText')}\n${d.ackUrl}\n\n${safetyText(d.eclipseKind, d.locale)}`, t('mail.footer'))
+}
+
+/** The decision as an SMS, and as a push notification's title and body, in the recipient's language. */
+export function decisionShortTexts(d: { tripTitle: string; siteName: string; meetingPoint: string; departLocal: string; ackUrl: string; locale?: string }) {
+  const t = translator(d.locale)
+  return {
+    sms: t('mail.decision.sms', { trip: d.tripTitle, site: d.siteName, place: d.meetingPoint, time: d.departLocal.slice(0, 16).replace('T', ' '), url: d.ackUrl }),
+    pushTitle: t('mail.decision.pushTitle', { site: d.siteName }),
+    pushBody: t('mail.decision.pushBody', { place: d.meetingPoint, time: d.departLocal.slice(11, 16) }),
+  }
 }
 
 /** Travellers whose participant details are incomplete (45 and 14 days before the trip, or an organiser's nudge). */

@@ -22,6 +22,8 @@ export interface OutgoingMail extends Mail {
    * it goes; the token itself is kept sealed in the row and put in only when the message is sent.
    */
   secret?: string
+  /** The language the message is written in (the recipient's account locale); English when unset. */
+  locale?: string
 }
 
 /** Where a message's one-time token goes in its bodies (a link is written `${appUrl}/path?token=${SECRET_TOKEN}`). */
@@ -49,6 +51,7 @@ export function outboxValues(m: OutgoingMail) {
     message_id: messageId, sealed_secret: m.secret !== undefined ? seal(m.secret, secretContext(messageId)) : null, dedupe_key: m.dedupeKey ?? null, kind: m.kind, to_email: m.to.email, to_name: m.to.name ?? '',
     subject: m.subject, html: m.html, text: m.text, attachments: JSON.stringify(m.attachments ?? []), next_attempt_at: nowIso(),
     last_error: null, booking_id: m.bookingId ?? null, trip_id: m.tripId ?? null, sending_since: null, sent_at: null,
+    locale: m.locale ?? 'en',
   }
 }
 
@@ -185,10 +188,10 @@ export async function retryMessage(db: Kysely<Database>, id: number): Promise<'o
 }
 
 export async function listOutbox(db: Kysely<Database>, limit = 200) {
-  const rows = await db.selectFrom('outbox').select(['id', 'kind', 'to_email', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at', 'next_attempt_at', 'booking_id', 'trip_id'])
+  const rows = await db.selectFrom('outbox').select(['id', 'kind', 'to_email', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at', 'next_attempt_at', 'booking_id', 'trip_id', 'locale'])
     .orderBy('id', 'desc').limit(limit).execute()
   return rows.map((r) => ({
     id: r.id, kind: r.kind, to: r.to_name ? `${r.to_name} <${r.to_email}>` : r.to_email, subject: r.subject, status: r.status, attempts: r.attempts,
-    lastError: r.last_error, createdAt: r.created_at, sentAt: r.sent_at, nextAttemptAt: r.next_attempt_at, bookingId: r.booking_id, tripId: r.trip_id,
+    lastError: r.last_error, createdAt: r.created_at, sentAt: r.sent_at, nextAttemptAt: r.next_attempt_at, bookingId: r.booking_id, tripId: r.trip_id, locale: r.locale,
   }))
 }

@@ -53,16 +53,17 @@ export function cueInputFor(el: BesselianElements, r: LocalReport, trip: Pick<Tr
   const contacts: CueInput['contacts'] = {}
   for (const k of CONTACTS) {
     const c = r[k]
-    if (c) contacts[k] = { utcMs: Date.parse(c.utc), uncertaintySec: c.uncertaintySec, direction: c.direction }
+    if (c) contacts[k] = { utcMs: Date.parse(c.utc), uncertaintySec: c.uncertaintySec, direction: c.direction, ...(c.vertexAngleDeg !== undefined ? { vertexAngleDeg: c.vertexAngleDeg } : {}) }
   }
   let shadowFrom: string | undefined
+  let shadowFromDeg: number | undefined
   if (r.max) {
     const clock = r.time.ttMinusUtcSec ?? r.time.deltaTSec
     const from = shadowApproachFromDeg(el, utcMsToT(el, Date.parse(r.max.utc), clock), deltaTHourAngleRad(r.time.deltaTSec))
-    if (from !== null) shadowFrom = compassWords(from)
+    if (from !== null) { shadowFrom = compassWords(from); shadowFromDeg = from }
   }
   return {
-    kind: localKindOf(r.type), contacts, offsets, planets, shadowFrom,
+    kind: localKindOf(r.type), contacts, offsets, planets, shadowFrom, ...(shadowFromDeg !== undefined ? { shadowFromDeg } : {}),
     margins: { sigmas: trip.filter_margin_sigmas, endSec: trip.filter_margin_end_sec },
   }
 }
@@ -76,7 +77,8 @@ async function tripSites(db: Kysely<Database>, trip: TripRow) {
 
 const offsetsOf = (trip: TripRow): Record<string, number> => (trip.cue_offsets ? JSON.parse(trip.cue_offsets) : {})
 
-export async function timetable(db: Kysely<Database>, tripId: number) {
+/** The trip's timetable; `locale` sets the language of its words, cues and safety text (English by default). */
+export async function timetable(db: Kysely<Database>, tripId: number, locale?: string) {
   const trip = await getTripRow(db, tripId)
   const rows = await tripSites(db, trip)
   const { el, deltaTOverride } = await elementsInForce(db, trip.eclipse_id)
@@ -99,7 +101,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     const contacts = { c1: contact('c1'), c2: contact('c2'), max: contact('max'), c3: contact('c3'), c4: contact('c4') }
     const kind = localKindOf(r.type)
     const planets = contacts.max ? planetsAt(Date.parse(contacts.max.utc), s.lat, s.lon, s.elevation_m) : []
-    const plan = planCues(cueInputFor(el, r, trip, offsets, planets))
+    const plan = planCues({ ...cueInputFor(el, r, trip, offsets, planets), ...(locale ? { locale } : {}) })
     const cues = plan.cues.map((c) => ({ ...c, utc: isoTenths(c.utcMs), ...localTime(Date.parse(isoTenths(c.utcMs)), zone) }))
     const pClear = cloud(s).pClear
     const horizon = siteHorizon(terrain, el, r, { lat: s.lat, lon: s.lon, elevationM: s.elevation_m }, { profile: false })
@@ -108,10 +110,10 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
       /** False while nobody set the site's height: elevationM is then the sea level the contacts assume. */
       elevationSet: s.elevation_source !== null, heightNote: s.elevation_source === null ? HEIGHT_NOT_SET_NOTE : null,
       zone, utcOffset: (contacts.max ?? contacts.c1)?.utcOffset ?? localTime(nowMs(), zone).utcOffset,
-      type: r.type, kind, words: phaseWords(kind), durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
+      type: r.type, kind, words: phaseWords(kind, locale), durationSec: r.durationSec, magnitude: r.magnitude, obscuration: r.obscuration,
       contacts, cues, notice: plan.notice,
       filtersOffWindow: plan.window ? { startUtc: isoTenths(plan.window.startMs), endUtc: isoTenths(plan.window.endMs) } : null,
-      planets, safety: safetyLines(kind), deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
+      planets, safety: safetyLines(kind, locale), deltaTSec: r.deltaTSec, time: r.time, elementsSource: r.elementsSource, uncertaintyMethod: r.uncertainty.method,
       /** The chase figures: expected seen seconds and the straight-line distance from the primary site. */
       chase: {
         pClear, expectedSec: pClear === null ? null : Math.round(r.durationSec * pClear * 10) / 10, durationSec: r.durationSec,
@@ -141,7 +143,7 @@ export async function timetable(db: Kysely<Database>, tripId: number) {
     },
     /** The day's decision in force (its site is sites[0]), or null before one is made. */
     decision,
-    sites, safety: safetyLines(primaryKind), words: phaseWords(primaryKind), elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec,
+    sites, safety: safetyLines(primaryKind, locale), words: phaseWords(primaryKind, locale), elements: el, deltaTSec: sites[0]?.deltaTSec ?? el.deltaTSec,
     time: sites[0]?.time, generatedAt: nowIso(),
   }
 }

@@ -4,13 +4,32 @@ import PDFDocument from 'pdfkit'
 import { skyDiagram } from '../../shared/briefing/skyDiagram'
 import type { TripBriefing } from './briefing'
 import type { timetable } from './timetable'
+import { languageTag } from '../../shared/i18n/locales'
+import { translator } from '../../shared/i18n/translate'
+import { compassIn, contactPlaceIn } from '../../shared/safety/cues'
+import { phaseWords, safetyLines, safetyTitle } from '../../shared/safety/text'
 
 type Timetable = Awaited<ReturnType<typeof timetable>>
 
 const fontPath = (weight: 400 | 600 | 700) => createRequire(import.meta.url).resolve(`@fontsource/work-sans/files/work-sans-latin-${weight}-normal.woff`)
 
 /** The embedded latin subset of Work Sans has no Greek or astronomical symbols: spell them out. */
-const plain = (t: string) => t.replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
+const plain = (t: string) => t.replace(/\u202f/g, '\u00a0').replace(/σ/g, 'sigma').replace(/ΔT/g, 'delta-T').replace(/Δ/g, 'delta ').replace(/☉/g, 'Sun').replace(/″/g, '"').replace(/′/g, "'").replace(/−/g, '-')
+
+/** Numbers in the reader's language with a fixed count of decimals and no grouping (English reads as toFixed did). */
+function numbers(locale?: string) {
+  const cache = new Map<number, Intl.NumberFormat>()
+  return (v: number, digits: number) => {
+    if (!cache.has(digits)) cache.set(digits, new Intl.NumberFormat(languageTag(locale), { minimumFractionDigits: digits, maximumFractionDigits: digits, useGrouping: false }))
+    return cache.get(digits)!.format(v)
+  }
+}
+
+/** When the PDF was made: English keeps its ISO form; other languages read a date and time in their own format, in UTC. */
+function generatedAt(iso: string, locale?: string): string {
+  if (!locale || locale === 'en') return iso.slice(0, 16).replace('T', ' ')
+  return new Intl.DateTimeFormat(languageTag(locale), { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }).format(new Date(iso))
+}
 
 const INK = '#1a1633', MUTED = '#62579b', GOLD = '#d8901b', RED = '#a8362d'
 
@@ -18,8 +37,10 @@ const INK = '#1a1633', MUTED = '#62579b', GOLD = '#d8901b', RED = '#a8362d'
  * The contact timetable as a PDF: one page per site, A4 or US Letter, Work Sans embedded; each site's
  * page is followed by the participants' briefing for that site when `briefings` are given.
  */
-export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: TripBriefing[] = [], rooming?: RoomingEntry[]): Promise<Buffer> {
-  const doc = new PDFDocument({ size: paper === 'letter' ? 'LETTER' : 'A4', margin: 42, autoFirstPage: false, info: { Title: `${t.trip.title} — contact timetable`, Author: 'Umbrafield' } })
+export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: TripBriefing[] = [], rooming?: RoomingEntry[], locale?: string): Promise<Buffer> {
+  const tr = translator(locale)
+  const fmt = numbers(locale)
+  const doc = new PDFDocument({ size: paper === 'letter' ? 'LETTER' : 'A4', margin: 42, autoFirstPage: false, lang: languageTag(locale), info: { Title: tr('doc.pdf.title', { trip: t.trip.title }), Author: 'Umbrafield' } })
   doc.registerFont('ws', fontPath(400))
   doc.registerFont('ws-semi', fontPath(600))
   doc.registerFont('ws-bold', fontPath(700))
@@ -30,37 +51,40 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     doc.addPage()
     const left = doc.page.margins.left
     const width = doc.page.width - left - doc.page.margins.right
-    doc.font('ws-semi').fontSize(8).fillColor(MUTED).text(`UMBRAFIELD · CONTACT TIMETABLE · ${s.role.toUpperCase()} SITE`, left, 40)
+    const words = phaseWords(s.kind, locale)
+    doc.font('ws-semi').fontSize(8).fillColor(MUTED).text(tr(s.role === 'primary' ? 'doc.pdf.kickerPrimary' : 'doc.pdf.kickerBackup'), left, 40)
     const headW = width - 110
     doc.font('ws-bold').fontSize(18).fillColor(INK).text(s.name, left, 54, { width: headW })
-    doc.font('ws').fontSize(10).fillColor(INK).text(`${t.trip.title} · eclipse of ${t.trip.eclipseId}`, { width: headW })
-    doc.fillColor(MUTED).text(`${s.lat.toFixed(4)}°, ${s.lon.toFixed(4)}°, ${s.elevationSet ? `${s.elevationM} m` : 'height not set (sea level assumed)'} · time zone ${s.zone} (UTC${s.utcOffset} on the day)`, { width: headW })
+    doc.font('ws').fontSize(10).fillColor(INK).text(tr('doc.pdf.tripLine', { trip: t.trip.title, eclipseId: t.trip.eclipseId }), { width: headW })
+    doc.fillColor(MUTED).text(tr('doc.pdf.siteLine', { lat: fmt(s.lat, 4), lon: fmt(s.lon, 4), height: s.elevationSet ? tr('doc.pdf.heightM', { m: new Intl.NumberFormat(languageTag(locale), { maximumFractionDigits: 2, useGrouping: false }).format(s.elevationM) }) : tr('doc.pdf.heightNotSet'), zone: s.zone, offset: s.utcOffset }), { width: headW })
     if (s.role === 'backup') {
-      doc.text(plain(`Fallback ${s.chase.rank} of ${t.sites.length - 1}${s.chase.expectedSec !== null ? ` · ${s.chase.expectedSec.toFixed(0)} s expected seen` : ''} · ${s.chase.distanceKm.toFixed(0)} km from ${t.sites[0]!.name} (straight line)`), { width: headW })
+      const fb = { rank: s.chase.rank, count: t.sites.length - 1, km: fmt(s.chase.distanceKm, 0), primary: t.sites[0]!.name }
+      doc.text(plain(s.chase.expectedSec !== null ? tr('doc.pdf.fallbackExpected', { ...fb, sec: fmt(s.chase.expectedSec, 0) }) : tr('doc.pdf.fallback', fb)), { width: headW })
     }
     doc.moveDown(0.4)
+    const summary = { eclipse: words.eclipseName, mag: fmt(s.magnitude, 4), obs: fmt(s.obscuration * 100, 1) }
     doc.font('ws-semi').fontSize(11).fillColor(INK)
-      .text(`${s.words.eclipseName}${s.words.central ? ` — ${s.words.central}: ${s.durationSec ? `${Math.floor(s.durationSec / 60)} min ${(s.durationSec % 60).toFixed(1)} s` : '—'}` : ''} · magnitude ${s.magnitude.toFixed(4)} · obscuration ${(s.obscuration * 100).toFixed(1)} %`, { width: headW })
+      .text(words.central ? tr('doc.pdf.summaryCentral', { ...summary, central: words.central, duration: s.durationSec ? tr('doc.pdf.duration', { min: Math.floor(s.durationSec / 60), sec: fmt(s.durationSec % 60, 1) }) : '—' }) : tr('doc.pdf.summary', summary), { width: headW })
 
     // Contacts table
     let y = doc.y + 8
     const cols = [0, 150, 250, 345, 405, 455]
     doc.font('ws-semi').fontSize(8).fillColor(MUTED)
-    ;['CONTACT', 'LOCAL TIME', 'UTC', '±', 'SUN ALT', 'SUN AZ'].forEach((h, i) => doc.text(h, left + cols[i]!, y))
+    ;[tr('doc.pdf.colContact'), tr('doc.pdf.colLocal'), 'UTC', '±', tr('doc.pdf.colSunAlt'), tr('doc.pdf.colSunAz')].forEach((h, i) => doc.text(h, left + cols[i]!, y))
     y += 13
     for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
       const c = s.contacts[k]
       if (!c) continue
       doc.moveTo(left, y - 3).lineTo(left + width, y - 3).lineWidth(0.4).strokeColor('#d2cee8').stroke()
       doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
-      doc.text(plain(s.words.contact[k]), left + cols[0]!, y)
+      doc.text(plain(words.contact[k]), left + cols[0]!, y)
       doc.text(c.local.slice(11), left + cols[1]!, y)
       doc.font('ws').text(utcClock(c.utc), left + cols[2]!, y)
-      doc.text(`${c.uncertaintySec.toFixed(1)} s`, left + cols[3]!, y)
-      doc.text(`${c.altitudeDeg.toFixed(1)}°`, left + cols[4]!, y)
-      doc.text(`${c.azimuthDeg.toFixed(0)}°`, left + cols[5]!, y)
+      doc.text(`${fmt(c.uncertaintySec, 1)} s`, left + cols[3]!, y)
+      doc.text(`${fmt(c.altitudeDeg, 1)}°`, left + cols[4]!, y)
+      doc.text(`${fmt(c.azimuthDeg, 0)}°`, left + cols[5]!, y)
       y += 16
-      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(`contact point ${c.direction} (position angle ${c.positionAngleDeg?.toFixed(0)}° from north, vertex angle ${c.vertexAngleDeg?.toFixed(0)}° from the top)`, left + cols[1]!, y - 3); y += 10 }
+      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(tr('doc.pdf.contactPoint', { dir: contactPlaceIn(c.direction, c.vertexAngleDeg, locale) ?? '', pa: c.positionAngleDeg === undefined ? '' : fmt(c.positionAngleDeg, 0), va: c.vertexAngleDeg === undefined ? '' : fmt(c.vertexAngleDeg, 0) }), left + cols[1]!, y - 3); y += 10 }
     }
     // Sun disc with the C2 and C3 points (vertex angles: measured from the top, counter-clockwise).
     const tableBottom = y
@@ -75,42 +99,42 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
       // Label inside the disc, next to its point.
       doc.font('ws-semi').fontSize(8).fillColor(colour).text(k.toUpperCase(), px + (px < cx ? 6 : -18), py + (py < cy ? 4 : -12))
     }
-    doc.font('ws').fontSize(7).fillColor(MUTED).text('zenith up', cx - 16, cy - r - 12)
-    doc.text('Sun, as seen', cx - 20, cy + r + 4)
+    doc.font('ws').fontSize(7).fillColor(MUTED).text(tr('doc.pdf.zenithUp'), cx - 16, cy - r - 12)
+    doc.text(tr('doc.pdf.sunAsSeen'), cx - 20, cy + r + 4)
 
     // Terrain warnings
     y = tableBottom + 8
     for (const w of s.terrainWarnings) {
-      doc.font('ws-bold').fontSize(9).fillColor(RED).text(plain(`Terrain: ${w}`), left, y, { width })
+      doc.font('ws-bold').fontSize(9).fillColor(RED).text(plain(tr('doc.pdf.terrain', { warning: w })), left, y, { width })
       y = doc.y + 4
     }
     // Cues
-    doc.font('ws-bold').fontSize(12).fillColor(INK).text('Cues', left, y + (s.terrainWarnings.length ? 4 : 0))
+    doc.font('ws-bold').fontSize(12).fillColor(INK).text(tr('doc.pdf.cues'), left, y + (s.terrainWarnings.length ? 4 : 0))
     y = doc.y + 4
     if (s.notice) {
       doc.font('ws-bold').fontSize(10).fillColor(RED).text(s.notice, left, y, { width })
       y = doc.y + 6
     } else if (s.filtersOffWindow) {
-      doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(`Filters may be off only from ${s.filtersOffWindow.startUtc.slice(11, 21)} to ${s.filtersOffWindow.endUtc.slice(11, 21)} UTC (C2 + ${t.trip.margins.sigmas} σ to C3 − ${t.trip.margins.sigmas} σ − ${t.trip.margins.endSec} s).`), left, y, { width })
+      doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(tr('doc.pdf.filtersWindow', { start: s.filtersOffWindow.startUtc.slice(11, 21), end: s.filtersOffWindow.endUtc.slice(11, 21), sigmas: t.trip.margins.sigmas, endSec: t.trip.margins.endSec })), left, y, { width })
       y = doc.y + 6
     }
     for (const c of s.cues) {
       doc.font('ws-semi').fontSize(10).fillColor(c.filters === 'off' ? RED : INK).text(c.local.slice(11), left, y, { width: 60 })
       doc.font('ws').fontSize(8).fillColor(MUTED).text(`UTC ${utcClock(c.utc)}`, left, y + 12, { width: 60 })
-      doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(`${c.label}  [filters ${c.filters}]`), left + 70, y, { width: width - 70 })
+      doc.font(c.filters === 'off' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK).text(plain(tr(c.filters === 'off' ? 'doc.pdf.tagOff' : 'doc.pdf.tagOn', { label: c.label })), left + 70, y, { width: width - 70 })
       y = Math.max(doc.y, y + 22) + 4
     }
     // Safety block
     y += 6
     const boxTop = y
-    doc.font('ws-bold').fontSize(10).fillColor(RED).text('Eye safety', left + 10, y + 8)
+    doc.font('ws-bold').fontSize(10).fillColor(RED).text(safetyTitle(locale), left + 10, y + 8)
     doc.font('ws').fontSize(9).fillColor(INK)
-    for (const line of s.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
+    for (const line of safetyLines(s.kind, locale)) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
     doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
     doc.font('ws').fontSize(7.5).fillColor(MUTED)
-      .text(plain(`${localAndUtcLine(s.time.line, s)} Elements: ${s.elementsSource}. ± ${s.uncertaintyMethod}.`) + ` Generated ${t.generatedAt.slice(0, 16).replace('T', ' ')} UTC.`, left, doc.y + 14, { width })
+      .text(plain(tr('doc.pdf.footnote', { line: localAndUtcLine(s.time.line, s, locale), source: s.elementsSource, method: s.uncertaintyMethod, at: generatedAt(t.generatedAt, locale) })), left, doc.y + 14, { width })
     const b = briefings.find((x) => x.site.id === s.siteId)
-    if (b) briefingPage(doc, b)
+    if (b) briefingPage(doc, b, locale)
   }
   if (rooming) roomingPage(doc, t.trip.title, rooming)
   doc.end()
@@ -118,15 +142,19 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
 }
 
 /** The participants' briefing for one site: the sequence, where to look, the corona, the sky's history, what to bring, safety. */
-function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
+function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing, locale?: string) {
+  const tr = translator(locale)
+  const words = phaseWords(b.kind, locale)
   doc.addPage()
   const left = doc.page.margins.left
   const width = doc.page.width - left - doc.page.margins.right
   const bottom = doc.page.height - doc.page.margins.bottom
   const room = (h: number) => { if (doc.y + h > bottom) doc.addPage() }
-  doc.font('ws-semi').fontSize(8).fillColor(MUTED).text(`UMBRAFIELD · PARTICIPANTS' BRIEFING · ${b.site.role.toUpperCase()} SITE`, left, 40)
-  doc.font('ws-bold').fontSize(16).fillColor(INK).text(`What you will see at ${b.site.name}`, left, 54, { width })
-  doc.font('ws').fontSize(9.5).fillColor(INK).text(plain(`${b.trip.title} · ${b.words.eclipseName.toLowerCase()}${b.words.central && b.durationSec ? `, ${b.words.central} ${Math.floor(b.durationSec / 60)} min ${Math.round(b.durationSec % 60)} s` : ''} · times local (UTC${b.site.utcOffset}) and UTC`), { width })
+  doc.font('ws-semi').fontSize(8).fillColor(MUTED).text(tr(b.site.role === 'primary' ? 'doc.pdf.kickerBriefingPrimary' : 'doc.pdf.kickerBriefingBackup'), left, 40)
+  doc.font('ws-bold').fontSize(16).fillColor(INK).text(tr('doc.pdf.whatYouSee', { site: b.site.name }), left, 54, { width })
+  doc.font('ws').fontSize(9.5).fillColor(INK).text(plain(words.central && b.durationSec
+    ? tr('doc.pdf.briefingLineCentral', { trip: b.trip.title, eclipse: words.eclipseInline, central: words.central, duration: tr('doc.pdf.duration', { min: Math.floor(b.durationSec / 60), sec: Math.round(b.durationSec % 60) }), offset: b.site.utcOffset })
+    : tr('doc.pdf.briefingLine', { trip: b.trip.title, eclipse: words.eclipseInline, offset: b.site.utcOffset })), { width })
   if (b.notice) doc.moveDown(0.3).font('ws-bold').fontSize(10).fillColor(RED).text(b.notice, { width })
   doc.moveDown(0.5)
   for (const st of b.steps) {
@@ -134,17 +162,17 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
     const y = doc.y
     doc.font('ws-semi').fontSize(9.5).fillColor(st.filters === 'off' ? RED : INK).text(st.local.slice(11), left, y, { width: 56 })
     doc.font('ws').fontSize(7).fillColor(MUTED).text(`UTC ${utcClock(st.utc)}`, left, y + 11, { width: 56 })
-    doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(`${st.title}  [filters ${st.filters}]${st.commonPractice ? '  (guides\' experience)' : ''}`), left + 62, y, { width: width - 62 })
+    doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(tr(`doc.pdf.step${st.filters === 'off' ? 'Off' : 'On'}${st.commonPractice ? 'Practice' : ''}`, { title: st.title })), left + 62, y, { width: width - 62 })
     doc.font('ws').fontSize(8.5).fillColor(INK).text(plain(st.text), left + 62, doc.y + 1, { width: width - 62 })
     doc.y = Math.max(doc.y, y + 22) + 3
   }
   // Where to look: the same panorama as the web page, drawn with PDF primitives.
-  const sun = b.sky.sun.filter((x) => x.contact !== 'c1' && x.contact !== 'c4').map((x) => ({ label: x.contact === 'max' ? 'Max' : x.contact.toUpperCase(), altitudeDeg: x.altitudeDeg, azimuthDeg: x.azimuthDeg }))
+  const sun = b.sky.sun.filter((x) => x.contact !== 'c1' && x.contact !== 'c4').map((x) => ({ label: x.contact === 'max' ? tr('doc.pdf.maxShort') : x.contact.toUpperCase(), altitudeDeg: x.altitudeDeg, azimuthDeg: x.azimuthDeg }))
   const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: o.name, altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
   const d = skyDiagram(sun, objs, { width: 640, height: 220 })
   const k = width / d.width
   room(d.height * k + 40)
-  doc.font('ws-bold').fontSize(11).fillColor(INK).text('Where to look', left, doc.y + 4)
+  doc.font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.whereToLook'), left, doc.y + 4)
   const top = doc.y + 4
   const X = (x: number) => left + x * k, Y = (y: number) => top + y * k
   doc.rect(X(0), Y(0), d.width * k, d.horizonY * k).fill('#1a1633')
@@ -164,20 +192,21 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing) {
     doc.font('ws').fontSize(7).fillColor('#c9e3ff').text(o.label, X(o.labelX), Y(o.labelY) - 9, { lineBreak: false })
   }
   doc.y = Y(d.height) + 4
-  doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(`Facing the Sun; altitude up, compass along the horizon. ${b.sky.sun.map((x) => `${x.label}: Sun ${x.altitudeDeg.toFixed(0)} deg up in the ${x.direction}`).join('; ')}.${d.behind.length ? ` Behind you: ${d.behind.join(', ')}.` : ''}`), left, doc.y, { width })
-  if (b.corona) { room(40); doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('The corona to expect', left); doc.font('ws').fontSize(9).text(plain(`${b.corona.words} ${b.corona.shape} ${b.corona.caveat}`), { width }) }
+  const sunAt = b.sky.sun.map((x) => tr('doc.pdf.sunAt', { label: words.contact[x.contact], alt: numbers(locale)(x.altitudeDeg, 0), dir: locale && locale !== 'en' ? compassIn(x.azimuthDeg, locale, 'words') : x.direction })).join('; ')
+  doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(d.behind.length ? tr('doc.pdf.facingBehind', { list: sunAt, behind: d.behind.join(', ') }) : tr('doc.pdf.facing', { list: sunAt })), left, doc.y, { width })
+  if (b.corona) { room(40); doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.corona'), left); doc.font('ws').fontSize(9).text(plain(`${b.corona.words} ${b.corona.shape} ${b.corona.caveat}`), { width }) }
   room(40)
-  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('The sky\'s history here', left)
-  doc.font('ws').fontSize(9).text(plain(`${b.weather.words}${b.weather.source ? ` Source: ${b.weather.source}.` : ''}`), { width })
+  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.history'), left)
+  doc.font('ws').fontSize(9).text(plain(b.weather.source ? tr('doc.pdf.source', { words: b.weather.words, source: b.weather.source }) : b.weather.words), { width })
   room(20 + b.checklist.length * 12)
-  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text('What to bring', left)
+  doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.bring'), left)
   doc.font('ws').fontSize(9)
   for (const item of b.checklist) doc.text(plain(`•  ${item}`), left, doc.y + 1, { width })
   room(90)
   const boxTop = doc.y + 8
-  doc.font('ws-bold').fontSize(10).fillColor(RED).text('Eye safety', left + 10, boxTop + 8)
+  doc.font('ws-bold').fontSize(10).fillColor(RED).text(safetyTitle(locale), left + 10, boxTop + 8)
   doc.font('ws').fontSize(8.5).fillColor(INK)
-  for (const line of b.safety) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
+  for (const line of safetyLines(b.kind, locale)) doc.text(plain(`• ${line}`), left + 10, doc.y + 2, { width: width - 20 })
   doc.rect(left, boxTop, width, doc.y - boxTop + 8).lineWidth(1).strokeColor(RED).stroke()
 }
 

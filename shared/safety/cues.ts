@@ -1,3 +1,5 @@
+import { isLocale } from '../i18n/locales'
+import { rawMessage, translate, type Params } from '../i18n/translate'
 import { phaseWords, type LocalKind } from './text'
 
 /**
@@ -56,6 +58,8 @@ export interface CueContact {
   uncertaintySec: number
   /** Where on the Sun the contact happens, in words (C2/C3). */
   direction?: string
+  /** The same place as a vertex angle, degrees from the zenith, counter-clockwise on the sky (for other languages' words). */
+  vertexAngleDeg?: number
 }
 
 export interface CueInput {
@@ -68,6 +72,10 @@ export interface CueInput {
   shadowFrom?: string
   /** Bright planets above the horizon at maximum. */
   planets?: Array<{ name: string; altitudeDeg: number; azimuthDeg: number }>
+  /** The bearing the shadow comes from, degrees from north through east (for other languages' words). */
+  shadowFromDeg?: number
+  /** The language of the labels (shared/i18n/locales.ts); English when unset. */
+  locale?: string
 }
 
 export interface PlannedCue {
@@ -119,26 +127,60 @@ export function filtersOffWindow(input: Pick<CueInput, 'kind' | 'contacts' | 'ma
   return endMs - startMs >= MIN_WINDOW_SEC * 1000 ? { startMs, endMs } : null
 }
 
+/** A bearing in words or as a 16-point abbreviation, in a locale (i18n/locales/<code>/doc.json, doc.compass). */
+export function compassIn(deg: number, locale: string | null | undefined, form: 'words' | 'short'): string {
+  const list = translate(locale, form === 'words' ? 'doc.compass.words' : 'doc.compass.short').split(form === 'words' ? ', ' : ' ')
+  return list[sector(deg)] ?? (form === 'words' ? compassWords(deg) : compassShort(deg))
+}
+
+const CLOCK_PLACES: Record<number, string> = {
+  12: 'top', 1: 'upperRight', 2: 'upperRight', 3: 'right', 4: 'lowerRight', 5: 'lowerRight',
+  6: 'bottom', 7: 'lowerLeft', 8: 'lowerLeft', 9: 'left', 10: 'upperLeft', 11: 'upperLeft',
+}
+
+/**
+ * Where a contact happens on the Sun's disc, as a clock position, in a locale. English keeps the
+ * engine's own words (`direction`); other languages build theirs from the vertex angle.
+ */
+export function contactPlaceIn(direction: string | undefined, vertexAngleDeg: number | undefined, locale: string | null | undefined): string | undefined {
+  if (!direction) return undefined
+  if (!locale || locale === 'en' || vertexAngleDeg === undefined) return direction
+  const hour = Math.round((((360 - vertexAngleDeg) % 360) + 360) % 360 / 30) % 12 || 12
+  return translate(locale, 'doc.clock.at', { where: translate(locale, `doc.clock.${CLOCK_PLACES[hour]}`), hour }, hour)
+}
+
+const whereOn = (c: CueContact | undefined, locale: string | null | undefined) => contactPlaceIn(c?.direction, c?.vertexAngleDeg, locale)
+
 function labelFor(key: string, input: CueInput, atMs: number): string {
-  const { contacts } = input
+  const { contacts, locale } = input
+  const t = (k: string, params: Params = {}) => translate(locale, `doc.cues.${k}`, params)
+  const english = !locale || locale === 'en'
   switch (key) {
-    case 'partial-begins': return 'Partial phase begins — eclipse viewers on'
-    case 'shadow': return `The shadow approaches from the ${input.shadowFrom ?? 'horizon'}: watch that part of the sky, and look for shadow bands on light ground`
-    case 'beads': return `Baily's beads — keep filters ON until the last bead has gone${contacts.c2?.direction ? `; the last light is ${contacts.c2.direction}` : ''}`
-    case 'filters-off': return 'Totality — filters off now, the bright surface is fully covered'
-    case 'chromosphere': return 'Chromosphere and prominences at the Moon\'s edge, then the corona'
+    case 'partial-begins': return t('partialBegins')
+    case 'shadow': {
+      const dir = english || input.shadowFromDeg === undefined ? input.shadowFrom : compassIn(input.shadowFromDeg, locale, 'words')
+      return dir ? t('shadow', { dir }) : t('shadowNoDir')
+    }
+    case 'beads': {
+      const where = whereOn(contacts.c2, locale)
+      return where ? t('beadsWhere', { where }) : t('beads')
+    }
+    case 'filters-off': return t('filtersOff')
+    case 'chromosphere': return t('chromosphere')
     case 'planets': {
       const p = input.planets ?? []
-      return p.length ? `Look for ${p.map((x) => `${x.name} ${Math.round(x.altitudeDeg)}° up in the ${compassShort(x.azimuthDeg)}`).join(', ')}` : 'Look around the horizon: no bright planet is up, but the brightest stars may show'
+      const name = (n: string) => (rawMessage(isLocale(locale) ? locale : 'en', `doc.planets.${n}`) ?? n)
+      return p.length ? t('planets', { list: p.map((x) => t('planet', { name: name(x.name), alt: Math.round(x.altitudeDeg), dir: compassIn(x.azimuthDeg, locale, 'short') })).join(', ') }) : t('noPlanets')
     }
     case 'filters-on': {
       const left = contacts.c3 ? Math.max(0, Math.round((contacts.c3.utcMs - atMs) / 1000)) : 0
-      return `Filters back ON — totality ends in ${left} s${contacts.c3?.direction ? `; the diamond ring appears ${contacts.c3.direction}` : ''}`
+      const where = whereOn(contacts.c3, locale)
+      return where ? t('filtersOnWhere', { sec: left, where }) : t('filtersOn', { sec: left })
     }
-    case 'annularity': return 'Annularity begins — the ring of sunlight; filters stay ON throughout'
-    case 'annularity-ends': return 'Annularity ends — filters stay ON'
-    case 'maximum': return 'Maximum eclipse — filters stay ON'
-    case 'partial-ends': return 'Partial phase ends'
+    case 'annularity': return t('annularity')
+    case 'annularity-ends': return t('annularityEnds')
+    case 'maximum': return t('maximum')
+    case 'partial-ends': return t('partialEnds')
     default: return key
   }
 }
@@ -165,10 +207,10 @@ export function planCues(input: CueInput): CuePlan {
     const offDef = defs.find((d) => d.key === 'filters-off')
     const onDef = defs.find((d) => d.key === 'filters-on')
     if (!window || !offDef || !onDef) {
-      notice = TOO_SHORT_NOTICE
+      notice = translate(input.locale, 'doc.cues.tooShort')
       // No filters-off cue at all: the group keeps filters on through the short totality.
       const c2 = input.contacts.c2
-      if (c2) cues.push({ key: 'keep-filters-on', anchor: 'c2', offsetSec: 0, utcMs: c2.utcMs, label: `${TOO_SHORT_NOTICE} Watch the diamond ring through your filter.`, filters: 'on' })
+      if (c2) cues.push({ key: 'keep-filters-on', anchor: 'c2', offsetSec: 0, utcMs: c2.utcMs, label: translate(input.locale, 'doc.cues.keepOn'), filters: 'on' })
     } else {
       // The defaults are placed, and edits kept, inside the window; anything outside moves to its safe side.
       const why = (a: number, b: number) => (Math.abs(a - b) > 50 ? 'moved inside the safe window for filters off' : undefined)

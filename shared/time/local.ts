@@ -1,3 +1,5 @@
+import { translate } from '../i18n/translate'
+
 /**
  * Local civil time of a UTC instant in an IANA zone, with the UTC offset in force then
  * (the zone rules of the date, daylight saving included). Uses the platform's Intl data.
@@ -67,10 +69,17 @@ export function localTime(utcMs: number, zone: string): LocalTime {
  * are UTC." would read as if the local column were UTC too, so it says which column is which first.
  * `line` is timeBasisLine's text; the rest of it (TT − UTC, ΔT and their sources) is kept.
  */
-export function localAndUtcLine(line: string, local: { zone: string; utcOffset?: string | null }): string {
+export function localAndUtcLine(line: string, local: { zone: string; utcOffset?: string | null }, locale?: string | null): string {
   const m = /^Times are (UTC|UT)( \(before 1972 there was no UTC\))?\.\s*/.exec(line)
   const clock = m?.[1] ?? 'UTC'
   const offset = local.utcOffset ? ` (UTC${local.utcOffset})` : ''
   const rest = m ? line.slice(m[0].length) : line
-  return `Local times are the site's clock, ${local.zone}${offset}; the ${clock} column is ${clock === 'UT' ? 'UT (before 1972 there was no UTC)' : 'UTC'}; both are rounded from the same instant to the second. ${rest}`.trim()
+  return `${translate(locale, clock === 'UT' ? 'doc.time.localAndUt' : 'doc.time.localAndUtc', { zone: local.zone, offset })} ${rest}`.trim()
+}
+
+/** timeBasisLine's text with its opening sentence ("Times are UTC.") in a locale; the figures and sources that follow are kept. */
+export function basisLineIn(line: string, locale?: string | null): string {
+  const m = /^Times are (UTC|UT)( \(before 1972 there was no UTC\))?\.\s*/.exec(line)
+  if (!m) return line
+  return `${translate(locale, m[1] === 'UT' ? 'doc.time.timesUt' : 'doc.time.timesUtc')} ${line.slice(m[0].length)}`.trim()
 }

@@ -23,6 +23,7 @@ import * as m0021 from './0021_personal_data'
 import * as m0022 from './0022_seat_counter'
 import * as m0023 from './0023_locale'
 import * as m0024 from './0024_voyages'
+import * as m0026 from './0026_outbox_locale'
 
 /** Every migration, by name; names sort in the order they run. Bundled, so no file-system provider is needed. */
 export const migrations: Record<string, Migration> = {
@@ -50,4 +51,5 @@ export const migrations: Record<string, Migration> = {
   '0022_seat_counter': m0022,
   '0023_locale': m0023,
   '0024_voyages': m0024,
+  '0026_outbox_locale': m0026,
 }

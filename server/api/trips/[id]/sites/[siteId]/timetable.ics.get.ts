@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { requestLocale } from '../../../../../utils/requestLocale'
 import { siteTimetableIcs } from '../../../../../services/calendar'
 import { assertTimetableAccess, timetable } from '../../../../../services/timetable'
 
@@ -11,5 +12,5 @@ export default defineEventHandler(async (event) => {
   const site = t.sites.find((s) => s.siteId === siteId)
   if (!site) throw createError({ statusCode: 404, statusMessage: 'No such site on this trip' })
   setResponseHeaders(event, { 'Content-Type': 'text/calendar; charset=utf-8', 'Content-Disposition': `attachment; filename="umbrafield-${t.trip.eclipseId}-site-${siteId}.ics"` })
-  return siteTimetableIcs(t.trip, site, t.decision?.siteId === siteId ? t.decision : null)
+  return siteTimetableIcs(t.trip, site, t.decision?.siteId === siteId ? t.decision : null, requestLocale(event, user))
 })

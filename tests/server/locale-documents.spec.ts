@@ -1,0 +1,127 @@
+import { url } from '@nuxt/test-utils/e2e'
+import { simpleParser } from 'mailparser'
+import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs'
+import { afterAll, describe, expect, it } from 'vitest'
+import { openDatabase } from '../../server/database/connection'
+import { api, caughtMail, MAIL_CATCHER, ORGANISER, signIn, TEST_DB, TRAVELLER, TRAVELLER2, useApp } from './app'
+
+// A traveller who reads German gets the itinerary, its calendar file and the documents in German;
+// English readers keep the English text.
+const { dbTarget } = await useApp()
+const db = openDatabase(dbTarget)
+afterAll(() => db.destroy())
+
+async function pdfText(buf: ArrayBuffer): Promise<string> {
+  const doc = await getDocument({ data: new Uint8Array(buf), useSystemFonts: false, isEvalSupported: false }).promise
+  const pages: string[] = []
+  for (let i = 1; i <= doc.numPages; i++) {
+    const content = await (await doc.getPage(i)).getTextContent()
+    pages.push(content.items.map((it) => ('str' in it ? it.str : '')).join(' '))
+  }
+  return pages.join('\n')
+}
+
+/** Unfolds RFC 5545 lines and returns each VEVENT's properties (values with their escapes undone). */
+function icsEvents(text: string) {
+  const lines = text.replace(/\r?\n[ \t]/g, '').split(/\r?\n/).filter(Boolean)
+  const events: Array<Record<string, string>> = []
+  for (const l of lines) {
+    if (l === 'BEGIN:VEVENT') events.push({})
+    const i = l.indexOf(':')
+    if (events.length && i > 0) events[events.length - 1]![l.slice(0, i).split(';')[0]!] = l.slice(i + 1).replace(/\\n/gi, '\n').replace(/\\([,;\\])/g, '$1')
+  }
+  return events
+}
+
+describe(`documents in the reader's language (${TEST_DB})`, () => {
+  it('a German traveller gets a German itinerary e-mail with a German calendar file; the outbox records the language', async () => {
+    await db.updateTable('users').set({ locale: 'de' }).where('email', '=', TRAVELLER2).execute()
+    const org = await signIn(ORGANISER)
+    const r = await api('/api/trips/1/itinerary', { method: 'POST', body: { confirm: true }, cookie: org })
+    expect(r.status).toBe(200)
+    // This app's own mail: its briefing link carries this app's port (the catcher is shared by every test file).
+    const mail = await caughtMail(TRAVELLER2, /^Ihr Reiseplan zur Finsternis: /, { containing: `:${new URL(url('/')).port}/trips/1/briefing` })
+    expect(mail.text).toMatch(/^Ihr Reiseplan zur Finsternis: /)
+    expect(mail.text).toContain('Guten Tag ')
+    expect(mail.text).toContain('Hier ist Ihr Reiseplan für')
+    expect(mail.text).toContain('TREFFPUNKT')
+    expect(mail.text).toContain('KONTAKTZEITEN')
+    expect(mail.text).toContain('C2 — Beginn der Totalität')
+    expect(mail.text).toContain('AUGENSCHUTZ')
+    expect(mail.text).toContain('ISO 12312-2')
+    expect(mail.text).toContain('Örtliche Vorschriften und fachkundiger Rat haben Vorrang.')
+    expect(mail.text).toContain('Ortszeiten folgen der Uhr am Standort')
+    expect(mail.text).toContain('Versandt von Umbrafield')
+    // Money in German form: the decimal comma and the symbol after the amount.
+    expect(mail.text).toMatch(/Bezahlt: [\d.]+,\d\d\s\S+; noch offen: [\d.]+,\d\d\s\S+\./)
+    for (const en of ['Hello ', 'Here is your itinerary', 'MEETING POINT', 'EYE SAFETY', 'totality begins', 'Local rules and qualified advice']) expect(mail.text).not.toContain(en)
+    expect(mail.html).toContain('Treffpunkt</h2>')
+    expect(mail.html).toContain('Augenschutz')
+    expect(mail.html).not.toContain('Eye safety')
+
+    // The calendar file, read from the raw message.
+    const raw = await fetch(`${MAIL_CATCHER}/api/email/${mail.id}/download`)
+    const parsed = await simpleParser(Buffer.from(await raw.arrayBuffer()))
+    const ics = parsed.attachments.find((a) => a.contentType.startsWith('text/calendar'))!.content.toString('utf8')
+    const events = icsEvents(ics)
+    expect(events).toHaveLength(6)
+    expect(events.find((e) => e.SUMMARY!.startsWith('Treffpunkt: '))).toBeTruthy()
+    const c2 = events.find((e) => e.SUMMARY!.startsWith('C2 — Beginn der Totalität'))!
+    expect(c2.DESCRIPTION).toContain('Totale Sonnenfinsternis vom ')
+    expect(c2.DESCRIPTION).toContain('Augenschutz: ')
+    expect(c2.DESCRIPTION).toContain('ISO 12312-2')
+    expect(c2.DESCRIPTION).toContain('Zeiten in UTC.')
+    for (const e of events) {
+      expect(e.SUMMARY).not.toMatch(/totality|partial phase|Maximum eclipse|Meet: /)
+      expect(e.DESCRIPTION).not.toMatch(/Eye safety|Total solar eclipse|meeting point|Times are UTC/)
+    }
+
+    // Organisers see which language each message went out in.
+    const out = await api('/api/outbox', { cookie: org })
+    const row = out.body.data.find((m: { to: string; kind: string }) => m.kind === 'itinerary' && m.to.includes(TRAVELLER2))
+    expect(row.locale).toBe('de')
+    expect(row.subject).toMatch(/^Ihr Reiseplan/)
+    const people = await api('/api/users', { cookie: org })
+    expect(people.body.data.find((u: { email: string }) => u.email === TRAVELLER2).locale).toBe('de')
+    expect(people.body.data.find((u: { email: string }) => u.email === ORGANISER).locale).toBe('en')
+  })
+
+  it('the timetable and briefing PDF reads German for a German account (whatever the browser asks); English stays English', async () => {
+    const org = await signIn(ORGANISER)
+    const get = async (headers: Record<string, string>) => pdfText(await (await fetch(url('/api/trips/1/timetable.pdf'), { headers: { cookie: org, ...headers } })).arrayBuffer())
+    const en = await get({})
+    expect(en).toContain('CONTACT TIMETABLE')
+    expect(en).toContain('Eye safety')
+
+    // A signed-in account's own language decides, before the cookie and Accept-Language.
+    await db.updateTable('users').set({ locale: 'de' }).where('email', '=', ORGANISER).execute()
+    try {
+      const de = await get({ 'accept-language': 'fr' })
+      for (const heading of ['KONTAKTZEITEN · HAUPTSTANDORT', 'KONTAKT', 'ORTSZEIT', 'Zeichen', 'Augenschutz', 'BRIEFING FÜR TEILNEHMENDE', 'Wohin Sie schauen', 'Was Sie mitbringen sollten', 'C2 — Beginn der Totalität', 'Perlschnurphänomen', 'Diamantring', 'Örtliche Vorschriften']) {
+        expect(de, heading).toContain(heading)
+      }
+      expect(de).toMatch(/Filter ab/)
+      expect(de).not.toContain('CONTACT TIMETABLE')
+      expect(de).not.toContain('Eye safety')
+      // Numbers with the German decimal comma (magnitude to four places).
+      expect(de).toMatch(/Größe \d,\d{4}/)
+    } finally {
+      await db.updateTable('users').set({ locale: 'en' }).where('email', '=', ORGANISER).execute()
+    }
+  })
+  // On PostgreSQL a hold is written in one statement (server/services/holdStatement.ts); on SQLite in a transaction: both must speak French.
+  it('a French traveller gets the hold e-mail in French, with the French safety text', async () => {
+    await db.updateTable('users').set({ locale: 'fr' }).where('email', '=', TRAVELLER).execute()
+    const hold = await api('/api/trips/1/bookings', { method: 'POST', body: { seats: 2 }, cookie: await signIn(TRAVELLER) })
+    expect(hold.status).toBe(201)
+    const mail = await caughtMail(TRAVELLER, /^Places retenues/, { containing: `:${new URL(url('/')).port}/bookings/${hold.body.id}` })
+    expect(mail.text).toContain('Bonjour ')
+    expect(mail.text).toContain('Nous vous réservons 2 place(s) jusqu’à ')
+    expect(mail.text).toContain('PROTECTION DES YEUX')
+    expect(mail.text).toContain('ISO 12312-2')
+    expect(mail.html).toContain('<strong>2 places</strong>')
+    expect(mail.text).not.toMatch(/Hello|We are holding|EYE SAFETY/)
+    const out = await api('/api/outbox', { cookie: await signIn(ORGANISER) })
+    expect(out.body.data.find((m: { kind: string; bookingId: number }) => m.kind === 'booking-held' && m.bookingId === hold.body.id).locale).toBe('fr')
+  })
+})
