@@ -1,10 +1,20 @@
 import type { BrowserContext } from '@playwright/test'
 import { expect, gotoHydrated, hydrated, signInAs, test } from './fixtures'
 
-/** Chooses the page language the way the header's switcher leaves it: the language cookie. */
+/**
+ * Chooses the page language the way the header's switcher leaves it for a signed-in traveller: the
+ * language cookie, and the account's own language (which wins over the cookie once signed in).
+ */
 async function speak(context: BrowserContext, baseURL: string, code: 'en' | 'de' | 'es' | 'fr') {
   await context.addCookies([{ name: 'umbrafield_locale', value: code, url: baseURL }])
+  const r = await context.request.patch(`${baseURL}/api/me`, { data: { locale: code } })
+  expect(r.status()).toBe(200)
 }
+
+// The demo traveller reads English in every other test: put it back whatever happened here.
+test.afterEach(async ({ context, baseURL }) => {
+  await context.request.patch(`${baseURL}/api/me`, { data: { locale: 'en' } }).catch(() => undefined)
+})
 
 test('a German traveller reads the briefing, the trip page and the booking in German', async ({ page, context, baseURL }) => {
   await signInAs(page, 'traveller2@umbrafield.test')
@@ -15,6 +25,10 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   const english = await page.locator('[data-step="beads"]').textContent()
   const hour = /about (\d+) o'clock/.exec(english ?? '')?.[1]
   expect(hour).toBeTruthy()
+  // The shared safety text, written by code in shared/ on the live page too (not only in the server's render).
+  const safetyNote = page.getByRole('note', { name: 'Eye safety' })
+  await expect(safetyNote).toContainText('ISO 12312-2')
+  await expect(safetyNote).not.toContainText('safety.lines')
 
   // The traveller switches to German: the same page now speaks German.
   await speak(context, baseURL!, 'de')
@@ -43,6 +57,9 @@ test('a German traveller reads the briefing, the trip page and the booking in Ge
   // The trip page: headings, the contact table and the booking box in German.
   await gotoHydrated(page, '/trips/1')
   await expect(page.getByRole('heading', { name: /^In Luxor West Bank/ })).toBeVisible()
+  await expect(page.getByRole('note', { name: 'Augenschutz' })).toContainText('ISO 12312-2')
+  await expect(page.getByRole('note', { name: 'Augenschutz' })).not.toContainText('safety.lines')
+  await expect(page.getByText(/doc\.time\./)).toHaveCount(0)
   await expect(page.getByRole('columnheader', { name: 'Kontakt' })).toBeVisible()
   await expect(page.getByRole('columnheader', { name: /^Ortszeit/ })).toBeVisible()
   await expect(page.getByRole('cell', { name: 'C2 – Beginn der Totalität' })).toBeVisible()

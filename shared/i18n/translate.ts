@@ -55,11 +55,22 @@ function interpolate(message: string, params: Params): string {
   })
 }
 
+/**
+ * In the browser the page's bundler hands these files over as compiled vue-i18n messages rather than
+ * text, so `lookup` finds no string there; the app then registers the page's own translator
+ * (plugins/shared-translator.client.ts), which reads the same messages. Server code never needs it.
+ */
+export type AppTranslate = (locale: LocaleCode, key: string, params: Params, count?: number) => string | undefined
+let appTranslate: AppTranslate | undefined
+export function useAppTranslator(fn: AppTranslate | undefined) {
+  appTranslate = fn
+}
+
 /** The message at `key` in `locale` (English where that locale lacks it), with its placeholders filled. */
 export function translate(locale: string | null | undefined, key: string, params: Params = {}, count?: number): string {
   const code: LocaleCode = isLocale(locale) ? locale : DEFAULT_LOCALE
   const message = lookup(code, key) ?? lookup(DEFAULT_LOCALE, key)
-  if (message === undefined) return key
+  if (message === undefined) return appTranslate?.(code, key, params, count) ?? key
   const choices = message.split('|').map((s) => s.trim())
   // Without a count vue-i18n still picks a choice, as if the count were one (its plural index −1).
   const picked = choices.length > 1 ? choices[Math.min(choiceIndex(count ?? -1, choices.length), choices.length - 1)]! : message
