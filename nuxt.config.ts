@@ -13,6 +13,9 @@ export default defineNuxtConfig({
   i18n: {
     locales: LOCALES.map(l => ({ code: l.code, language: l.language, name: l.name, files: LOCALE_FILES.map(f => `${l.code}/${f}`) })),
     defaultLocale: 'en',
+    // One URL per page in every language, so no alternate links are written (useLocaleHead with seo: false);
+    // the module still asks for a base URL at each render. NUXT_PUBLIC_I18N_BASE_URL overrides it.
+    baseUrl: 'http://localhost:3000',
     strategy: 'no_prefix',
     langDir: 'locales',
     vueI18n: 'i18n.config.ts',
