@@ -19,7 +19,7 @@ const addDays = (date: string, days: number) => new Date(Date.parse(`${date}T00:
 /** What each seat of a booking still lacks (seats with nothing missing left out); the mail puts it in words. */
 async function missingBySeat(db: Db, bookingId: number, seatCount: number) {
   const rows = await participantRows(db, [bookingId])
-  return Array.from({ length: seatCount }, (_, i) => ({ seat: i + 1, fields: missingFields(participantFields(rows.get(`${bookingId}:${i + 1}`)))) }))
+  return Array.from({ length: seatCount }, (_, i) => ({ seat: i + 1, fields: missingFields(participantFields(rows.get(`${bookingId}:${i + 1}`))) }))
     .filter((m) => m.fields.length)
 }
 
