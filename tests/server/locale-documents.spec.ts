@@ -92,6 +92,7 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
     const en = await get({})
     expect(en).toContain('CONTACT TIMETABLE')
     expect(en).toContain('Eye safety')
+    for (const line of ['The air cools', 'The eclipse ends (C4)', 'A red torch']) expect(en, line).toContain(line)
 
     // A signed-in account's own language decides, before the cookie and Accept-Language.
     await db.updateTable('users').set({ locale: 'de' }).where('email', '=', ORGANISER).execute()
@@ -101,6 +102,10 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
         expect(de, heading).toContain(heading)
       }
       expect(de).toMatch(/Filter ab/)
+      // The briefing's own sentences: the steps, the sky's history and the default list of what to bring.
+      for (const line of ['Die Luft kühlt ab', 'Die Finsternis endet (C4)', 'Die Brille bleibt bis zum Schluss auf', 'Taschenlampe mit Rotlicht', 'Wasser']) expect(de, line).toContain(line)
+      expect(de).toMatch(/Statistik, keine Vorhersage|noch keine Bewölkungsdaten/)
+      for (const line of ['The air cools', 'The eclipse ends (C4)', 'Viewers on until the very end', 'A red torch', 'not a forecast', 'No cloud history']) expect(de, line).not.toContain(line)
       expect(de).not.toContain('CONTACT TIMETABLE')
       expect(de).not.toContain('Eye safety')
       // Numbers with the German decimal comma (magnitude to four places).
