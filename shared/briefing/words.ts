@@ -1,6 +1,5 @@
-import { languageTag } from '../i18n/locales'
+import { isLocale, languageTag } from '../i18n/locales'
 import { rawMessage, translator } from '../i18n/translate'
-import { isLocale } from '../i18n/locales'
 import { DEFAULT_CHECKLIST } from '../schemas/trips'
 
 /**
