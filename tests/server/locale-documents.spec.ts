@@ -104,7 +104,7 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
       expect(de).toMatch(/Filter ab/)
       // The briefing's own sentences: the steps, the sky's history and the default list of what to bring.
       for (const line of ['Die Luft kühlt ab', 'Die Finsternis endet (C4)', 'Die Brille bleibt bis zum Schluss auf', 'Taschenlampe mit Rotlicht', 'Wasser']) expect(de, line).toContain(line)
-      expect(de).toMatch(/Statistik, keine Vorhersage|noch keine Bewölkungsdaten/)
+      expect(de).toMatch(/Statistik, keine\s+Vorhersage|noch keine\s+Bewölkungsdaten/)
       for (const line of ['The air cools', 'The eclipse ends (C4)', 'Viewers on until the very end', 'A red torch', 'not a forecast', 'No cloud history']) expect(de, line).not.toContain(line)
       expect(de).not.toContain('CONTACT TIMETABLE')
       expect(de).not.toContain('Eye safety')
