@@ -2,7 +2,7 @@ import { localAndUtcLine, utcClock } from '../../shared/time/local'
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
 import { skyDiagram } from '../../shared/briefing/skyDiagram'
-import { briefingWordsIn } from '../../shared/briefing/words'
+import { briefingWordsIn, skyNameIn } from '../../shared/briefing/words'
 import type { TripBriefing } from './briefing'
 import type { timetable } from './timetable'
 import { languageTag } from '../../shared/i18n/locales'
@@ -170,7 +170,7 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing, locale?: string)
   }
   // Where to look: the same panorama as the web page, drawn with PDF primitives.
   const sun = b.sky.sun.filter((x) => x.contact !== 'c1' && x.contact !== 'c4').map((x) => ({ label: x.contact === 'max' ? tr('doc.pdf.maxShort') : x.contact.toUpperCase(), altitudeDeg: x.altitudeDeg, azimuthDeg: x.azimuthDeg }))
-  const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: o.name, altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
+  const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: skyNameIn(o.name, locale), altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
   const d = skyDiagram(sun, objs, { width: 640, height: 220 })
   const k = width / d.width
   room(d.height * k + 40)

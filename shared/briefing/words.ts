@@ -25,6 +25,13 @@ export interface BriefingForWords {
 const ENGLISH_COMPASS = ['north', 'north-northeast', 'northeast', 'east-northeast', 'east', 'east-southeast', 'southeast', 'south-southeast',
   'south', 'south-southwest', 'southwest', 'west-southwest', 'west', 'west-northwest', 'northwest', 'north-northwest']
 
+/** A planet's or bright star's name as the language writes it (most stars' proper names are the same everywhere). */
+export function skyNameIn(name: string, locale: string | null | undefined): string {
+  if (!isLocale(locale) || locale === 'en') return name
+  const key = `briefing.sky.name.${name.replace(/ /g, '_')}`
+  return rawMessage(locale, key) !== undefined ? translator(locale)(key) : name
+}
+
 export function briefingWordsIn(b: BriefingForWords, locale: string | null | undefined) {
   const english = { steps: b.steps.map((s) => ({ title: s.title, text: s.text })), notice: b.notice, corona: b.corona ? `${b.corona.words} ${b.corona.shape} ${b.corona.caveat}` : null, weather: b.weather.words, checklist: b.checklist }
   if (!isLocale(locale) || locale === 'en') return english
@@ -33,7 +40,7 @@ export function briefingWordsIn(b: BriefingForWords, locale: string | null | und
   const number = (n: number, digits = 0) => new Intl.NumberFormat(languageTag(locale), { minimumFractionDigits: digits, maximumFractionDigits: digits }).format(n)
   const duration = (sec: number) => { const s = Math.round(sec), min = Math.floor(s / 60); return t('trip.duration.minSec', { min: number(min), sec: number(s - min * 60) }) }
   const compass = (deg: number) => t(`trip.compass.${Math.round((((deg % 360) + 360) % 360) / 22.5) % 16}`)
-  const skyName = (name: string) => (has(`briefing.sky.name.${name.replace(/ /g, '_')}`) ? t(`briefing.sky.name.${name.replace(/ /g, '_')}`) : name)
+  const skyName = (name: string) => skyNameIn(name, locale)
   const noticeText = (n: string | null) => (!n ? '' : n.startsWith('Totality here is too short to remove filters safely') ? t('briefing.tooShortNotice') : n)
   const where = (k: 'c1' | 'c2' | 'c3') => { const h = b.stepFacts.clock[k]; return h ? t(`briefing.clock.${h}`, { h }) : '' }
   const fromIdx = b.stepFacts.shadowFrom ? ENGLISH_COMPASS.indexOf(b.stepFacts.shadowFrom) : -1

@@ -105,6 +105,9 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
       // The briefing's own sentences: the steps, the sky's history and the default list of what to bring.
       for (const line of ['Die Luft kühlt ab', 'Die Finsternis endet (C4)', 'Die Brille bleibt bis zum Schluss auf', 'Taschenlampe mit Rotlicht', 'Wasser']) expect(de, line).toContain(line)
       expect(de).toMatch(/Statistik, keine\s+Vorhersage|noch keine\s+Bewölkungsdaten/)
+      // The sky diagram labels the demo's bright objects in German (Mercury → Merkur, Arcturus → Arktur).
+      expect(de).toContain('Merkur')
+      expect(de).not.toMatch(/Mercury|Arcturus/)
       for (const line of ['The air cools', 'The eclipse ends (C4)', 'Viewers on until the very end', 'A red torch', 'not a forecast', 'No cloud history']) expect(de, line).not.toContain(line)
       expect(de).not.toContain('CONTACT TIMETABLE')
       expect(de).not.toContain('Eye safety')
