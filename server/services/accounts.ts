@@ -92,10 +92,11 @@ export async function createUser(db: Kysely<Database>, input: { name: string; em
 const CONFIRMATION_HOURS = 48
 const tokenHash = (token: string) => createHash('sha256').update(token).digest('hex')
 
-export async function sendEmailConfirmation(trx: Transaction<Database> | Kysely<Database>, user: Pick<User, 'id' | 'name' | 'email'>, appUrl: string) {
+export async function sendEmailConfirmation(trx: Transaction<Database> | Kysely<Database>, user: Pick<User, 'id' | 'name' | 'email' | 'locale'>, appUrl: string) {
   const token = randomBytes(24).toString('base64url')
   await trx.insertInto('email_confirmations').values({ token_hash: tokenHash(token), user_id: user.id, expires_at: new Date(nowMs() + CONFIRMATION_HOURS * 3600_000).toISOString() }).execute()
-  await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, secret: token, ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${SECRET_TOKEN}`, hours: CONFIRMATION_HOURS }) })
+  await enqueueMail(trx, { kind: 'confirm-email', to: { email: user.email, name: user.name }, secret: token, locale: user.locale,
+    ...confirmEmailMail({ name: user.name, url: `${appUrl}/verify-email?token=${SECRET_TOKEN}`, hours: CONFIRMATION_HOURS, locale: user.locale }) })
 }
 
 export class InvalidTokenError extends Error {}
@@ -173,10 +174,10 @@ async function issuePasswordLink(trx: Db, userId: number, purpose: 'reset' | 'in
 
 const passwordUrl = (appUrl: string, purpose: 'reset' | 'invite') => `${appUrl}/reset-password?token=${SECRET_TOKEN}${purpose === 'invite' ? '&invite=1' : ''}`
 
-async function sendInvitation(trx: Db, user: Pick<User, 'id' | 'name' | 'email' | 'role'>, appUrl: string, inviter: string) {
+async function sendInvitation(trx: Db, user: Pick<User, 'id' | 'name' | 'email' | 'role' | 'locale'>, appUrl: string, inviter: string) {
   const token = await issuePasswordLink(trx, user.id, 'invite')
-  await enqueueMail(trx, { kind: 'invitation', to: { email: user.email, name: user.name }, secret: token,
-    ...invitationMail({ name: user.name, inviter, role: user.role, url: passwordUrl(appUrl, 'invite'), days: PASSWORD_LINK.inviteDays }) })
+  await enqueueMail(trx, { kind: 'invitation', to: { email: user.email, name: user.name }, secret: token, locale: user.locale,
+    ...invitationMail({ name: user.name, inviter, role: user.role, url: passwordUrl(appUrl, 'invite'), days: PASSWORD_LINK.inviteDays, locale: user.locale }) })
 }
 
 /**
@@ -195,12 +196,12 @@ export async function unusablePasswordHash(hash: (plain: string) => Promise<stri
  */
 export async function requestPasswordReset(db: Kysely<Database>, email: string, appUrl: string, ip: string): Promise<void> {
   await db.transaction().execute(async (trx) => {
-    const user = await trx.selectFrom('users').select(['id', 'name', 'email']).where('email', '=', email).executeTakeFirst()
+    const user = await trx.selectFrom('users').select(['id', 'name', 'email', 'locale']).where('email', '=', email).executeTakeFirst()
     await audit(trx, { action: 'password_reset_requested', subjectUserId: user?.id ?? null, ip, detail: { email } })
     if (user) {
       const token = await issuePasswordLink(trx, user.id, 'reset')
-      await enqueueMail(trx, { kind: 'password-reset', to: { email: user.email, name: user.name }, secret: token,
-        ...passwordResetMail({ name: user.name, url: passwordUrl(appUrl, 'reset'), minutes: PASSWORD_LINK.resetMinutes }) })
+      await enqueueMail(trx, { kind: 'password-reset', to: { email: user.email, name: user.name }, secret: token, locale: user.locale,
+        ...passwordResetMail({ name: user.name, url: passwordUrl(appUrl, 'reset'), minutes: PASSWORD_LINK.resetMinutes, locale: user.locale }) })
     } else {
       // The same statements as for a known address (the links of "no one" end: none), then the mail.
       await endPasswordLinks(trx, -1, nowIso(), 'reset')

@@ -1,7 +1,8 @@
 import { formatMoney } from '../../shared/schemas/trips'
 import { safetyLines, type LocalKind } from '../../shared/safety/text'
 import { languageTag } from '../../shared/i18n/locales'
-import { translator, type Params } from '../../shared/i18n/translate'
+import { translator, type Params, type Translator } from '../../shared/i18n/translate'
+import type { RequiredField } from '../../shared/schemas/participants'
 
 export interface Mail { subject: string; html: string; text: string }
 
@@ -164,11 +165,13 @@ export function itinerary(d: ItineraryData): Mail {
   return frame(t('mail.itinerary.subject', { trip: d.tripTitle }), html, text, t('mail.footer'))
 }
 
-export function confirmEmailMail(d: { name: string; url: string; hours: number }): Mail {
-  return frame('Confirm your e-mail address',
-    p(`Hello ${esc(d.name)},`) + p('Confirm that this address is yours, so that you can hold seats on eclipse trips:') + button(d.url, 'Confirm my address')
-      + p(`The link works once, for ${d.hours} hours. If you did not sign up for Umbrafield, ignore this message.`),
-    `Hello ${d.name},\n\nConfirm that this address is yours, so that you can hold seats on eclipse trips:\n${d.url}\n\nThe link works once, for ${d.hours} hours. If you did not sign up for Umbrafield, ignore this message.`)
+export function confirmEmailMail(d: { name: string; url: string; hours: number; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  return frame(t('mail.account.confirm.subject'),
+    p(th('mail.hello', { name: d.name })) + p(esc(t('mail.account.confirm.lead'))) + button(d.url, t('mail.account.confirm.button'))
+      + p(th('mail.account.confirm.note', { hours: d.hours })),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.account.confirm.lead')}\n${d.url}\n\n${t('mail.account.confirm.note', { hours: d.hours })}`, t('mail.footer'))
 }
 
 export function refundStuckMail(d: { tripTitle: string; bookingId: number; amountMinor: number; currency: string; attempts: number; error: string; url: string }): Mail {
@@ -179,18 +182,22 @@ export function refundStuckMail(d: { tripTitle: string; bookingId: number; amoun
     'Sent by Umbrafield to the trip\'s organiser.')
 }
 
-export function accountExistsMail(d: { name: string; signInUrl: string }): Mail {
-  return frame('Someone tried to sign up with your address',
-    p(`Hello ${esc(d.name)},`) + p('Someone just tried to create an Umbrafield account with this e-mail address, which already has one. If it was you, sign in instead:') + button(d.signInUrl, 'Sign in')
-      + p('If it was not you, nothing has changed and you need do nothing.'),
-    `Hello ${d.name},\n\nSomeone just tried to create an Umbrafield account with this e-mail address, which already has one. If it was you, sign in instead:\n${d.signInUrl}\n\nIf it was not you, nothing has changed and you need do nothing.`)
+export function accountExistsMail(d: { name: string; signInUrl: string; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  return frame(t('mail.account.exists.subject'),
+    p(th('mail.hello', { name: d.name })) + p(esc(t('mail.account.exists.lead'))) + button(d.signInUrl, t('mail.account.exists.button'))
+      + p(esc(t('mail.account.exists.note'))),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.account.exists.lead')}\n${d.signInUrl}\n\n${t('mail.account.exists.note')}`, t('mail.footer'))
 }
 
-export function passwordResetMail(d: { name: string; url: string; minutes: number }): Mail {
-  return frame('Choose a new password',
-    p(`Hello ${esc(d.name)},`) + p('Someone, hopefully you, asked to set a new password for your Umbrafield account. Follow this link to choose one:') + button(d.url, 'Choose a new password')
-      + p(`The link works once, for ${d.minutes} minutes; a newer request replaces it. Choosing a new password signs you out on every device. If you did not ask, ignore this message: your password stays as it is.`),
-    `Hello ${d.name},\n\nSomeone, hopefully you, asked to set a new password for your Umbrafield account. Follow this link to choose one:\n${d.url}\n\nThe link works once, for ${d.minutes} minutes; a newer request replaces it. Choosing a new password signs you out on every device. If you did not ask, ignore this message: your password stays as it is.`)
+export function passwordResetMail(d: { name: string; url: string; minutes: number; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  return frame(t('mail.account.reset.subject'),
+    p(th('mail.hello', { name: d.name })) + p(esc(t('mail.account.reset.lead'))) + button(d.url, t('mail.account.reset.button'))
+      + p(th('mail.account.reset.note', { minutes: d.minutes })),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.account.reset.lead')}\n${d.url}\n\n${t('mail.account.reset.note', { minutes: d.minutes })}`, t('mail.footer'))
 }
 
 export function passwordResetNoAccountMail(d: { signUpUrl: string }): Mail {
@@ -200,21 +207,50 @@ export function passwordResetNoAccountMail(d: { signUpUrl: string }): Mail {
     `Someone asked to set a new Umbrafield password for this e-mail address, but no account uses it. If it was you, you may have signed up with another address, or you can create an account:\n${d.signUpUrl}\n\nIf it was not you, ignore this message: nothing has changed.`)
 }
 
-export function invitationMail(d: { name: string; inviter: string; role: string; url: string; days: number }): Mail {
-  return frame('You are invited to Umbrafield',
-    p(`Hello ${esc(d.name)},`) + p(`${esc(d.inviter)} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:`) + button(d.url, 'Choose your password')
-      + p(`The link works once, for ${d.days} days. If you were not expecting this, ignore this message.`),
-    `Hello ${d.name},\n\n${d.inviter} has made you an Umbrafield account as ${d.role === 'organiser' ? 'an organiser' : 'a guide'}. Choose your password to start:\n${d.url}\n\nThe link works once, for ${d.days} days. If you were not expecting this, ignore this message.`)
+export function invitationMail(d: { name: string; inviter: string; role: string; url: string; days: number; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const lead = { inviter: d.inviter, role: t(d.role === 'organiser' ? 'mail.account.invite.roleOrganiser' : 'mail.account.invite.roleGuide') }
+  return frame(t('mail.account.invite.subject'),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.account.invite.lead', lead)) + button(d.url, t('mail.account.invite.button'))
+      + p(th('mail.account.invite.note', { days: d.days })),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.account.invite.lead', lead)}\n${d.url}\n\n${t('mail.account.invite.note', { days: d.days })}`, t('mail.footer'))
 }
 
+/**
+ * One change's label and values in the reader's language. The five changes travellers are told of
+ * carry their field `key`; dates are ISO days, a meeting point is `meetingText`'s line in tripOps.ts
+ * ("<place>, YYYY-MM-DD HH:MM local time (UTC<offset>, <zone>)"), a dropped fallback site names its
+ * `site`. Anything else, and every value in English, stays as written.
+ */
+function changeIn(c: TripChange, t: Translator): TripChange {
+  if (t.locale === 'en' || !c.key) return c
+  const label = t(`mail.changed.label.${c.key}`)
+  const value = (v: string): string => {
+    if (c.key === 'startDate' || c.key === 'endDate') return dateIn(v, t.locale)
+    if (c.key === 'meetingPoint') {
+      const m = /^(.*), (\d{4}-\d{2}-\d{2})[ T](\d{2}:\d{2}) local time \(UTC([^,]*), ([^)]*)\)$/.exec(v)
+      return m ? t('mail.changed.meeting', { place: m[1]!, time: `${dateIn(m[2]!, t.locale)} ${m[3]}`, offset: m[4]!, zone: m[5]! }) : v
+    }
+    return v === 'none' ? t('mail.changed.none') : v
+  }
+  if (c.key === 'backupSiteIds' && c.site) return { ...c, label, from: t('mail.changed.fallbackWas', { site: c.site }), to: t('mail.changed.fallbackNoMore', { site: c.site }) }
+  return { ...c, label, from: value(c.from), to: value(c.to) }
+}
+
+export interface TripChange { label: string; from: string; to: string; key?: string; site?: string }
+
 /** A trip's dates, meeting point or sites changed: each change with its old and new value. */
-export function tripChanged(d: { name: string; tripTitle: string; changes: Array<{ label: string; from: string; to: string }>; tripUrl: string }): Mail {
-  const rows = d.changes.map((c) => `<tr><td style="padding:4px 8px 4px 0;font-weight:700">${esc(c.label)}</td><td style="padding:4px 8px;color:#62579b"><s>${esc(c.from)}</s></td><td style="padding:4px 0">${esc(c.to)}</td></tr>`).join('')
-  return frame(`Your trip has changed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`The organiser has changed <strong>${esc(d.tripTitle)}</strong>:`)
-      + `<table role="presentation" style="border-collapse:collapse;font-size:14px"><tr><th align="left">What</th><th align="left">Was</th><th align="left">Now</th></tr>${rows}</table>`
-      + p('Your booking, its price and its terms stay as agreed.') + button(d.tripUrl, 'See the trip'),
-    `Hello ${d.name},\n\nThe organiser has changed ${d.tripTitle}:\n\n${d.changes.map((c) => `${c.label}\n  was: ${c.from}\n  now: ${c.to}`).join('\n\n')}\n\nYour booking, its price and its terms stay as agreed.\n${d.tripUrl}`)
+export function tripChanged(d: { name: string; tripTitle: string; changes: TripChange[]; tripUrl: string; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const changes = d.changes.map((c) => changeIn(c, t))
+  const rows = changes.map((c) => `<tr><td style="padding:4px 8px 4px 0;font-weight:700">${esc(c.label)}</td><td style="padding:4px 8px;color:#62579b"><s>${esc(c.from)}</s></td><td style="padding:4px 0">${esc(c.to)}</td></tr>`).join('')
+  return frame(t('mail.changed.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.changed.lead', {}, { trip: `<strong>${esc(d.tripTitle)}</strong>` }))
+      + `<table role="presentation" style="border-collapse:collapse;font-size:14px"><tr><th align="left">${esc(t('mail.changed.what'))}</th><th align="left">${esc(t('mail.changed.was'))}</th><th align="left">${esc(t('mail.changed.now'))}</th></tr>${rows}</table>`
+      + p(esc(t('mail.changed.keep'))) + button(d.tripUrl, t('mail.changed.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.changed.lead', { trip: d.tripTitle })}\n\n${changes.map((c) => `${c.label}\n  ${t('mail.changed.wasText', { value: c.from })}\n  ${t('mail.changed.nowText', { value: c.to })}`).join('\n\n')}\n\n${t('mail.changed.keep')}\n${d.tripUrl}`, t('mail.footer'))
 }
 
 /** The day's decision: where the group goes, when it leaves, where it meets; one button acknowledges. */
@@ -241,11 +277,21 @@ export function decisionShortTexts(d: { tripTitle: string; siteName: string; mee
 }
 
 /** Travellers whose participant details are incomplete (45 and 14 days before the trip, or an organiser's nudge). */
-export function participantsReminderMail(d: { name: string; tripTitle: string; startDate: string; daysBefore: number | null; missing: Array<{ seat: number; fields: string[] }>; bookingUrl: string }): Mail {
-  const when = d.daysBefore === null ? `before the trip starts on ${d.startDate}` : `— the trip starts in ${d.daysBefore} days, on ${d.startDate}`
-  const lines = d.missing.map((m) => `Seat ${m.seat}: ${m.fields.join(', ')}`)
-  return frame(`Traveller details needed: ${d.tripTitle}`,
-    p(`Hello ${esc(d.name)},`) + p(`Hotels, border officials, airlines and insurers need each traveller's details ${esc(when)}. Still missing:`)
-    + `<ul style="margin:0 0 12px 18px;padding:0">${lines.map((l) => `<li>${esc(l)}</li>`).join('')}</ul>` + button(d.bookingUrl, 'Complete the details'),
-    `Hello ${d.name},\n\nHotels, border officials, airlines and insurers need each traveller's details ${when}. Still missing:\n${lines.map((l) => `- ${l}`).join('\n')}\n\n${d.bookingUrl}`)
+export function participantsReminderMail(d: { name: string; tripTitle: string; startDate: string; daysBefore: number | null; missing: Array<{ seat: number; fields: RequiredField[] }>; bookingUrl: string; locale?: string }): Mail {
+  const t = translator(d.locale)
+  const th = htmlT(t)
+  const date = dateIn(d.startDate, d.locale)
+  const when = d.daysBefore === null ? t('mail.participants.whenBefore', { date }) : t('mail.participants.whenIn', { days: d.daysBefore, date })
+  const lines = d.missing.map((m) => t('mail.participants.seat', { seat: m.seat, fields: m.fields.map((f) => t(`mail.participants.field.${FIELD_MESSAGE[f]}`)).join(', ') }))
+  return frame(t('mail.participants.subject', { trip: d.tripTitle }),
+    p(th('mail.hello', { name: d.name })) + p(th('mail.participants.lead', { when }))
+    + `<ul style="margin:0 0 12px 18px;padding:0">${lines.map((l) => `<li>${esc(l)}</li>`).join('')}</ul>` + button(d.bookingUrl, t('mail.participants.button')),
+    `${t('mail.hello', { name: d.name })}\n\n${t('mail.participants.lead', { when })}\n${lines.map((l) => `- ${l}`).join('\n')}\n\n${d.bookingUrl}`, t('mail.footer'))
+}
+
+/** Each required participant field's message key under mail.participants.field (message keys hold no dots). */
+const FIELD_MESSAGE: Record<RequiredField, string> = {
+  fullName: 'fullName', dateOfBirth: 'dateOfBirth', nationality: 'nationality', passportNumber: 'passportNumber', passportExpiry: 'passportExpiry',
+  mobilePhone: 'mobilePhone', 'emergencyContact.name': 'emergencyName', 'emergencyContact.phone': 'emergencyPhone',
+  'emergencyContact.relation': 'emergencyRelation', 'room.type': 'roomType',
 }

@@ -2,6 +2,7 @@ import { localAndUtcLine, utcClock } from '../../shared/time/local'
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
 import { skyDiagram } from '../../shared/briefing/skyDiagram'
+import { briefingWordsIn, skyNameIn } from '../../shared/briefing/words'
 import type { TripBriefing } from './briefing'
 import type { timetable } from './timetable'
 import { languageTag } from '../../shared/i18n/locales'
@@ -145,6 +146,7 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
 function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing, locale?: string) {
   const tr = translator(locale)
   const words = phaseWords(b.kind, locale)
+  const said = briefingWordsIn(b, locale)
   doc.addPage()
   const left = doc.page.margins.left
   const width = doc.page.width - left - doc.page.margins.right
@@ -155,20 +157,20 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing, locale?: string)
   doc.font('ws').fontSize(9.5).fillColor(INK).text(plain(words.central && b.durationSec
     ? tr('doc.pdf.briefingLineCentral', { trip: b.trip.title, eclipse: words.eclipseInline, central: words.central, duration: tr('doc.pdf.duration', { min: Math.floor(b.durationSec / 60), sec: Math.round(b.durationSec % 60) }), offset: b.site.utcOffset })
     : tr('doc.pdf.briefingLine', { trip: b.trip.title, eclipse: words.eclipseInline, offset: b.site.utcOffset })), { width })
-  if (b.notice) doc.moveDown(0.3).font('ws-bold').fontSize(10).fillColor(RED).text(b.notice, { width })
+  if (said.notice) doc.moveDown(0.3).font('ws-bold').fontSize(10).fillColor(RED).text(said.notice, { width })
   doc.moveDown(0.5)
-  for (const st of b.steps) {
+  for (const [i, st] of b.steps.entries()) {
     room(34)
     const y = doc.y
     doc.font('ws-semi').fontSize(9.5).fillColor(st.filters === 'off' ? RED : INK).text(st.local.slice(11), left, y, { width: 56 })
     doc.font('ws').fontSize(7).fillColor(MUTED).text(`UTC ${utcClock(st.utc)}`, left, y + 11, { width: 56 })
-    doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(tr(`doc.pdf.step${st.filters === 'off' ? 'Off' : 'On'}${st.commonPractice ? 'Practice' : ''}`, { title: st.title })), left + 62, y, { width: width - 62 })
-    doc.font('ws').fontSize(8.5).fillColor(INK).text(plain(st.text), left + 62, doc.y + 1, { width: width - 62 })
+    doc.font(st.filters === 'off' ? 'ws-bold' : 'ws-semi').fontSize(9.5).fillColor(INK).text(plain(tr(`doc.pdf.step${st.filters === 'off' ? 'Off' : 'On'}${st.commonPractice ? 'Practice' : ''}`, { title: said.steps[i]!.title })), left + 62, y, { width: width - 62 })
+    doc.font('ws').fontSize(8.5).fillColor(INK).text(plain(said.steps[i]!.text), left + 62, doc.y + 1, { width: width - 62 })
     doc.y = Math.max(doc.y, y + 22) + 3
   }
   // Where to look: the same panorama as the web page, drawn with PDF primitives.
   const sun = b.sky.sun.filter((x) => x.contact !== 'c1' && x.contact !== 'c4').map((x) => ({ label: x.contact === 'max' ? tr('doc.pdf.maxShort') : x.contact.toUpperCase(), altitudeDeg: x.altitudeDeg, azimuthDeg: x.azimuthDeg }))
-  const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: o.name, altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
+  const objs = (b.sky.darkSky ? b.sky.objects : []).map((o) => ({ label: skyNameIn(o.name, locale), altitudeDeg: o.altitudeDeg, azimuthDeg: o.azimuthDeg }))
   const d = skyDiagram(sun, objs, { width: 640, height: 220 })
   const k = width / d.width
   room(d.height * k + 40)
@@ -194,14 +196,14 @@ function briefingPage(doc: PDFKit.PDFDocument, b: TripBriefing, locale?: string)
   doc.y = Y(d.height) + 4
   const sunAt = b.sky.sun.map((x) => tr('doc.pdf.sunAt', { label: words.contact[x.contact], alt: numbers(locale)(x.altitudeDeg, 0), dir: locale && locale !== 'en' ? compassIn(x.azimuthDeg, locale, 'words') : x.direction })).join('; ')
   doc.font('ws').fontSize(8).fillColor(MUTED).text(plain(d.behind.length ? tr('doc.pdf.facingBehind', { list: sunAt, behind: d.behind.join(', ') }) : tr('doc.pdf.facing', { list: sunAt })), left, doc.y, { width })
-  if (b.corona) { room(40); doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.corona'), left); doc.font('ws').fontSize(9).text(plain(`${b.corona.words} ${b.corona.shape} ${b.corona.caveat}`), { width }) }
+  if (b.corona) { room(40); doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.corona'), left); doc.font('ws').fontSize(9).text(plain(said.corona ?? ''), { width }) }
   room(40)
   doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.history'), left)
-  doc.font('ws').fontSize(9).text(plain(b.weather.source ? tr('doc.pdf.source', { words: b.weather.words, source: b.weather.source }) : b.weather.words), { width })
-  room(20 + b.checklist.length * 12)
+  doc.font('ws').fontSize(9).text(plain(b.weather.source ? tr('doc.pdf.source', { words: said.weather, source: b.weather.source }) : said.weather), { width })
+  room(20 + said.checklist.length * 12)
   doc.moveDown(0.4).font('ws-bold').fontSize(11).fillColor(INK).text(tr('doc.pdf.bring'), left)
   doc.font('ws').fontSize(9)
-  for (const item of b.checklist) doc.text(plain(`•  ${item}`), left, doc.y + 1, { width })
+  for (const item of said.checklist) doc.text(plain(`•  ${item}`), left, doc.y + 1, { width })
   room(90)
   const boxTop = doc.y + 8
   doc.font('ws-bold').fontSize(10).fillColor(RED).text(safetyTitle(locale), left + 10, boxTop + 8)

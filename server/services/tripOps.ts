@@ -15,11 +15,13 @@ type Db = Kysely<Database> | Transaction<Database>
 
 /** One change as travellers and the audit log read it. */
 export interface Change { label: string; from: string; to: string }
+/** A change as told to travellers: with its field's key (and a dropped fallback site's name) for the mail's language. */
+type ToldChange = Change & { key?: string; site?: string }
 
 /** Travellers who hold seats on a trip now: confirmed bookings and holds that have not lapsed. */
 export async function bookedTravellers(db: Db, tripId: number) {
   return db.selectFrom('bookings').innerJoin('users', 'users.id', 'bookings.user_id')
-    .select(['bookings.id as bookingId', 'bookings.seats', 'users.id as userId', 'users.name', 'users.email'])
+    .select(['bookings.id as bookingId', 'bookings.seats', 'users.id as userId', 'users.name', 'users.email', 'users.locale'])
     .where('bookings.trip_id', '=', tripId)
     .where((eb) => eb.or([eb('bookings.status', '=', 'confirmed'), eb.and([eb('bookings.status', '=', 'held'), eb('bookings.hold_expires_at', '>', nowIso())])]))
     .orderBy('bookings.id').execute()
@@ -37,12 +39,12 @@ async function siteNames(db: Db, ids: number[]): Promise<Map<number, string>> {
 }
 
 /** Writes one "your trip has changed" e-mail per booking, in the caller's transaction. */
-async function tellTravellers(trx: Db, trip: Pick<TripRow, 'id' | 'title'>, changes: Change[], appUrl: string): Promise<number> {
+async function tellTravellers(trx: Db, trip: Pick<TripRow, 'id' | 'title'>, changes: ToldChange[], appUrl: string): Promise<number> {
   if (!changes.length) return 0
   const who = await bookedTravellers(trx, trip.id)
   for (const b of who) {
-    await enqueueMail(trx, { kind: 'trip-changed', to: { email: b.email, name: b.name }, bookingId: b.bookingId, tripId: trip.id,
-      ...T.tripChanged({ name: b.name, tripTitle: trip.title, changes, tripUrl: `${appUrl}/trips/${trip.id}` }) })
+    await enqueueMail(trx, { kind: 'trip-changed', to: { email: b.email, name: b.name }, bookingId: b.bookingId, tripId: trip.id, locale: b.locale,
+      ...T.tripChanged({ name: b.name, tripTitle: trip.title, changes, tripUrl: `${appUrl}/trips/${trip.id}`, locale: b.locale }) })
   }
   return who.length
 }
@@ -125,7 +127,7 @@ export async function updateTrip(db: Kysely<Database>, user: User, id: number, p
     await audit(trx, { action: 'trip_update', actorUserId: user.id, detail: { tripId: id, changes } })
     // More seats: the waitlist is offered them at once (when sales are open).
     if (n.seats > t.seats && n.salesOpen && t.status === 'published') await offerWaitlist(trx, id, cfg)
-    const told = ['startDate', 'endDate', 'meetingPoint', 'primarySiteId', 'backupSiteIds'].flatMap((k) => (changes[k] ? [changes[k]] : []))
+    const told = ['startDate', 'endDate', 'meetingPoint', 'primarySiteId', 'backupSiteIds'].flatMap((k) => (changes[k] ? [{ ...changes[k], key: k }] : []))
     const notified = await tellTravellers(trx, { id, title: n.title }, told, cfg.appUrl)
     return { id, changed: Object.keys(changes), notified }
   })
@@ -232,7 +234,7 @@ export async function changeSite(db: Kysely<Database>, user: User, siteId: numbe
     const after = await trx.selectFrom('sites').selectAll().where('id', '=', siteId).executeTakeFirstOrThrow()
     if (!impact.length) return
     const change: Change = { label: 'Observing site', from: sitePlace(s), to: sitePlace(after) }
-    for (const x of impact) await tellTravellers(trx, { id: x.tripId, title: x.title }, [change], appUrl)
+    for (const x of impact) await tellTravellers(trx, { id: x.tripId, title: x.title }, [{ ...change, key: 'primarySiteId' }], appUrl)
     await audit(trx, { action: 'site_change_told', actorUserId: user.id, detail: { siteId, trips: impact.map((x) => x.tripId), change } })
   })
 }
@@ -254,7 +256,7 @@ export async function removeSite(db: Kysely<Database>, user: User, siteId: numbe
     if (used.length && !confirm) throw new SiteInUseError(used[0]!.title)
     for (const t of used) {
       await trx.deleteFrom('trip_backup_sites').where('trip_id', '=', t.id).where('site_id', '=', siteId).execute()
-      await tellTravellers(trx, t, [{ label: 'Fallback sites', from: `${s.name} is a fallback site`, to: `${s.name} is no longer a fallback site` }], appUrl)
+      await tellTravellers(trx, t, [{ label: 'Fallback sites', from: `${s.name} is a fallback site`, to: `${s.name} is no longer a fallback site`, key: 'backupSiteIds', site: s.name }], appUrl)
     }
     if (used.length) await audit(trx, { action: 'site_delete_told', actorUserId: user.id, detail: { siteId, name: s.name, trips: used.map((t) => t.id) } })
     const r = await trx.deleteFrom('sites').where('id', '=', siteId).executeTakeFirst()

@@ -1,20 +1,24 @@
 import deDoc from '../../i18n/locales/de/doc.json'
 import deMail from '../../i18n/locales/de/mail.json'
 import deSafety from '../../i18n/locales/de/safety.json'
+import deTrip from '../../i18n/locales/de/trip.json'
 import enDoc from '../../i18n/locales/en/doc.json'
 import enMail from '../../i18n/locales/en/mail.json'
 import enSafety from '../../i18n/locales/en/safety.json'
+import enTrip from '../../i18n/locales/en/trip.json'
 import esDoc from '../../i18n/locales/es/doc.json'
 import esMail from '../../i18n/locales/es/mail.json'
 import esSafety from '../../i18n/locales/es/safety.json'
+import esTrip from '../../i18n/locales/es/trip.json'
 import frDoc from '../../i18n/locales/fr/doc.json'
 import frMail from '../../i18n/locales/fr/mail.json'
 import frSafety from '../../i18n/locales/fr/safety.json'
+import frTrip from '../../i18n/locales/fr/trip.json'
 import { DEFAULT_LOCALE, isLocale, type LocaleCode } from './locales'
 
 /**
  * Umbrafield's translator outside Vue: e-mails, calendar files, PDFs and the shared safety text.
- * It reads the same message files as the pages (i18n/locales/<code>/{mail,doc,safety}.json, bundled
+ * It reads the same message files as the pages (i18n/locales/<code>/{mail,doc,safety,trip}.json, bundled
  * at build time, no I/O at run time) and follows vue-i18n's message syntax for what those files use:
  * `{name}` placeholders, `{'literal'}` text, and `|` plural choices picked by vue-i18n's default rule
  * (two choices: one | other; three: zero | one | other), with `{count}` and `{n}` set to the number.
@@ -23,10 +27,10 @@ import { DEFAULT_LOCALE, isLocale, type LocaleCode } from './locales'
 type Tree = { [key: string]: string | Tree }
 
 const MESSAGES: Record<LocaleCode, Tree[]> = {
-  en: [enMail, enDoc, enSafety] as Tree[],
-  de: [deMail, deDoc, deSafety] as Tree[],
-  es: [esMail, esDoc, esSafety] as Tree[],
-  fr: [frMail, frDoc, frSafety] as Tree[],
+  en: [enMail, enDoc, enSafety, enTrip] as Tree[],
+  de: [deMail, deDoc, deSafety, deTrip] as Tree[],
+  es: [esMail, esDoc, esSafety, esTrip] as Tree[],
+  fr: [frMail, frDoc, frSafety, frTrip] as Tree[],
 }
 
 export type Params = Record<string, string | number>

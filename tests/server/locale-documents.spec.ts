@@ -92,6 +92,7 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
     const en = await get({})
     expect(en).toContain('CONTACT TIMETABLE')
     expect(en).toContain('Eye safety')
+    for (const line of ['The air cools', 'The eclipse ends (C4)', 'A red torch']) expect(en, line).toContain(line)
 
     // A signed-in account's own language decides, before the cookie and Accept-Language.
     await db.updateTable('users').set({ locale: 'de' }).where('email', '=', ORGANISER).execute()
@@ -101,6 +102,13 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
         expect(de, heading).toContain(heading)
       }
       expect(de).toMatch(/Filter ab/)
+      // The briefing's own sentences: the steps, the sky's history and the default list of what to bring.
+      for (const line of ['Die Luft kühlt ab', 'Die Finsternis endet (C4)', 'Die Brille bleibt bis zum Schluss auf', 'Taschenlampe mit Rotlicht', 'Wasser']) expect(de, line).toContain(line)
+      expect(de).toMatch(/Statistik, keine\s+Vorhersage|noch keine\s+Bewölkungsdaten/)
+      // The sky diagram labels the demo's bright objects in German (Mercury → Merkur, Arcturus → Arktur).
+      expect(de).toContain('Merkur')
+      expect(de).not.toMatch(/Mercury|Arcturus/)
+      for (const line of ['The air cools', 'The eclipse ends (C4)', 'Viewers on until the very end', 'A red torch', 'not a forecast', 'No cloud history']) expect(de, line).not.toContain(line)
       expect(de).not.toContain('CONTACT TIMETABLE')
       expect(de).not.toContain('Eye safety')
       // Numbers with the German decimal comma (magnitude to four places).
@@ -123,5 +131,67 @@ describe(`documents in the reader's language (${TEST_DB})`, () => {
     expect(mail.text).not.toMatch(/Hello|We are holding|EYE SAFETY/)
     const out = await api('/api/outbox', { cookie: await signIn(ORGANISER) })
     expect(out.body.data.find((m: { kind: string; bookingId: number }) => m.kind === 'booking-held' && m.bookingId === hold.body.id).locale).toBe('fr')
+  })
+
+  it('a German account gets its password-reset e-mail in German; the outbox records the language', async () => {
+    await db.updateTable('users').set({ locale: 'de' }).where('email', '=', TRAVELLER2).execute()
+    const r = await api('/api/auth/password-reset', { method: 'POST', body: { email: TRAVELLER2 } })
+    expect(r.status).toBe(202)
+    const mail = await caughtMail(TRAVELLER2, /^Wählen Sie ein neues Passwort$/, { containing: `:${new URL(url('/')).port}/reset-password?token=` })
+    expect(mail.text).toMatch(/^Wählen Sie ein neues Passwort\n=+\n\nGuten Tag /)
+    expect(mail.text).toContain('Jemand – hoffentlich Sie – hat ein neues Passwort für Ihr Umbrafield-Konto angefordert.')
+    expect(mail.text).toMatch(/Der Link funktioniert einmal und \d+ Minuten lang; eine neuere Anfrage ersetzt ihn\./)
+    expect(mail.text).toContain('Versandt von Umbrafield')
+    expect(mail.html).toContain('>Neues Passwort wählen</a>')
+    for (const en of ['Hello ', 'Choose a new password', 'The link works once', 'Sent by Umbrafield']) {
+      expect(mail.text).not.toContain(en)
+      expect(mail.html).not.toContain(en)
+    }
+    const out = await api('/api/outbox', { cookie: await signIn(ORGANISER) })
+    expect(out.body.data.filter((m: { kind: string; to: string }) => m.kind === 'password-reset' && m.to.includes(TRAVELLER2)).at(-1).locale).toBe('de')
+  })
+
+  it('a German traveller is told of new dates and a new meeting point in German (dates and local time in German form); an English one in English', async () => {
+    await db.updateTable('users').set({ locale: 'de' }).where('email', '=', TRAVELLER2).execute()
+    const demo = await db.selectFrom('trips').select(['workspace_id', 'primary_site_id']).where('id', '=', 1).executeTakeFirstOrThrow()
+    const org = await signIn(ORGANISER)
+    const title = `Geänderte Reise ${Date.now()} (test)`
+    const created = await api('/api/trips', { method: 'POST', cookie: org, body: {
+      workspaceId: demo.workspace_id, primarySiteId: demo.primary_site_id, backupSiteIds: [], title, startDate: '2027-07-31', endDate: '2027-08-03',
+      seats: 10, priceMinor: 200_000, depositMinor: 40_000, currency: 'EUR', balanceDueDate: '2027-05-01',
+      cancellationTiers: [{ until: '2099-01-01', refundPct: 100 }], minGroupSize: 2,
+      meetingPoint: { name: 'Altes Hotel (test)', lat: 25.69, lon: 32.64, time: '2027-08-02T06:30:00+03:00' },
+    } })
+    expect(created.status, JSON.stringify(created.body)).toBe(201)
+    const id = created.body.id as number
+    expect((await api(`/api/trips/${id}/publish`, { method: 'POST', cookie: org })).status).toBe(200)
+    expect((await api(`/api/trips/${id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER2) })).status).toBe(201)
+    await db.updateTable('users').set({ locale: 'en' }).where('email', '=', TRAVELLER).execute()
+    expect((await api(`/api/trips/${id}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: await signIn(TRAVELLER) })).status).toBe(201)
+    const r = await api(`/api/trips/${id}`, { method: 'PATCH', cookie: org,
+      body: { startDate: '2028-07-20', endDate: '2028-07-25', meetingPoint: { name: 'Hafentor (test)', lat: 25.7, lon: 32.65, time: '2028-07-22T05:00:00+03:00' } } })
+    expect(r.status, JSON.stringify(r.body)).toBe(200)
+    expect(r.body.notified).toBe(2)
+
+    const de = await caughtMail(TRAVELLER2, /^Ihre Reise wurde geändert: /, { containing: `:${new URL(url('/')).port}/trips/${id}` })
+    expect(de.subject).toBe(`Ihre Reise wurde geändert: ${title}`)
+    expect(de.text).toContain(`Der Veranstalter hat ${title} geändert:`)
+    expect(de.text).toMatch(/Erster Tag\n {2}bisher: 31\. Juli 2027\n {2}neu: 20\. Juli 2028/)
+    expect(de.text).toMatch(/Letzter Tag\n {2}bisher: 3\. August 2027\n {2}neu: 25\. Juli 2028/)
+    expect(de.text).toContain('Treffpunkt\n  bisher: Altes Hotel (test), 2. August 2027 06:30 Ortszeit (UTC+03:00, Africa/Cairo)')
+    expect(de.text).toContain('neu: Hafentor (test), 22. Juli 2028 05:00 Ortszeit (UTC+03:00, Africa/Cairo)')
+    expect(de.text).toContain('Ihre Buchung, der Preis und die Bedingungen bleiben wie vereinbart.')
+    expect(de.html).toContain('<th align="left">Änderung</th><th align="left">Bisher</th><th align="left">Neu</th>')
+    expect(de.html).toContain('>Reise ansehen</a>')
+    for (const en of ['Hello ', 'First day', 'was: ', 'local time', 'Your booking', 'See the trip']) expect(de.text + de.html).not.toContain(en)
+
+    const en = await caughtMail(TRAVELLER, /^Your trip has changed: /, { containing: `:${new URL(url('/')).port}/trips/${id}` })
+    expect(en.text).toMatch(/First day\n {2}was: 2027-07-31\n {2}now: 2028-07-20/)
+    expect(en.text).toContain('was: Altes Hotel (test), 2027-08-02 06:30 local time (UTC+03:00, Africa/Cairo)')
+    expect(en.html).toContain('<th align="left">What</th><th align="left">Was</th><th align="left">Now</th>')
+
+    const out = await api('/api/outbox', { cookie: org })
+    const rows = out.body.data.filter((m: { kind: string; tripId: number }) => m.kind === 'trip-changed' && m.tripId === id)
+    expect(rows.map((m: { to: string; locale: string }) => [m.to.includes(TRAVELLER2) ? 'de' : 'en', m.locale]).sort()).toEqual([['de', 'de'], ['en', 'en']])
   })
 })

@@ -17,8 +17,8 @@ export default defineEventHandler(async (event) => {
     await createUser(useDb(), { name: body.name, email: body.email, passwordHash, role: 'traveller', locale: body.locale }, null, clientIp(event), 'sign_up', appUrl)
   } catch (e) {
     if (!(e instanceof EmailTakenError)) throw e
-    const owner = await useDb().selectFrom('users').select(['name', 'email']).where('email', '=', body.email).executeTakeFirstOrThrow()
-    await enqueueMail(useDb(), { kind: 'account-exists', to: { email: owner.email, name: owner.name }, ...accountExistsMail({ name: owner.name, signInUrl: `${appUrl}/login` }) })
+    const owner = await useDb().selectFrom('users').select(['name', 'email', 'locale']).where('email', '=', body.email).executeTakeFirstOrThrow()
+    await enqueueMail(useDb(), { kind: 'account-exists', to: { email: owner.email, name: owner.name }, locale: owner.locale, ...accountExistsMail({ name: owner.name, signInUrl: `${appUrl}/login`, locale: owner.locale }) })
   }
   setResponseStatus(event, 202)
   return { ok: true, message: `Check your inbox at ${body.email}: follow the link there to confirm your address, then sign in.` }

@@ -1,5 +1,5 @@
 import type { Kysely, Transaction } from 'kysely'
-import { FIELD_LABELS, missingFields } from '../../../shared/schemas/participants'
+import { missingFields } from '../../../shared/schemas/participants'
 import type { Database, User } from '../../database/schema'
 import { audit } from '../audit'
 import { businessDate } from '../clock'
@@ -16,23 +16,23 @@ export const PARTICIPANT_REMINDER_DAYS = [45, 14] as const
 const DAY_MS = 86_400_000
 const addDays = (date: string, days: number) => new Date(Date.parse(`${date}T00:00:00Z`) + days * DAY_MS).toISOString().slice(0, 10)
 
-/** What each seat of a booking still lacks (seats with nothing missing left out), in words for the mail. */
+/** What each seat of a booking still lacks (seats with nothing missing left out); the mail puts it in words. */
 async function missingBySeat(db: Db, bookingId: number, seatCount: number) {
   const rows = await participantRows(db, [bookingId])
-  return Array.from({ length: seatCount }, (_, i) => ({ seat: i + 1, fields: missingFields(participantFields(rows.get(`${bookingId}:${i + 1}`))).map((f) => FIELD_LABELS[f]) }))
+  return Array.from({ length: seatCount }, (_, i) => ({ seat: i + 1, fields: missingFields(participantFields(rows.get(`${bookingId}:${i + 1}`))) }))
     .filter((m) => m.fields.length)
 }
 
 async function queueOne(trx: Db, bookingId: number, appUrl: string, dedupeKey: string, daysBefore: number | null): Promise<boolean> {
   if (await trx.selectFrom('outbox').select('id').where('dedupe_key', '=', dedupeKey).executeTakeFirst()) return false
   const b = await trx.selectFrom('bookings').innerJoin('users', 'users.id', 'bookings.user_id').innerJoin('trips', 'trips.id', 'bookings.trip_id')
-    .select(['bookings.id', 'bookings.seats', 'bookings.trip_id', 'users.name', 'users.email', 'trips.title', 'trips.start_date'])
+    .select(['bookings.id', 'bookings.seats', 'bookings.trip_id', 'users.name', 'users.email', 'users.locale', 'trips.title', 'trips.start_date'])
     .where('bookings.id', '=', bookingId).executeTakeFirstOrThrow()
   const missing = await missingBySeat(trx, b.id, b.seats)
   if (!missing.length) return false
   await enqueueMail(trx, {
-    kind: 'participants-reminder', dedupeKey, to: { email: b.email, name: b.name }, bookingId: b.id, tripId: b.trip_id,
-    ...participantsReminderMail({ name: b.name, tripTitle: b.title, startDate: b.start_date, daysBefore, missing, bookingUrl: `${appUrl}/bookings/${b.id}` }),
+    kind: 'participants-reminder', dedupeKey, to: { email: b.email, name: b.name }, bookingId: b.id, tripId: b.trip_id, locale: b.locale,
+    ...participantsReminderMail({ name: b.name, tripTitle: b.title, startDate: b.start_date, daysBefore, missing, bookingUrl: `${appUrl}/bookings/${b.id}`, locale: b.locale }),
   })
   return true
 }
