@@ -39,3 +39,16 @@ export function localMessage(text: string): string {
   if (!key || !i18n) return text
   return i18n.t(`messages.${key}`)
 }
+
+/**
+ * A refusal the server explains by a code (sold out, a hold already open, too many requests…), in the
+ * page's language from the `serverCodes` namespace, with the figures the answer carries. English pages
+ * keep the server's own sentence; an unknown code gives undefined, and the caller shows the sentence.
+ */
+export function codeMessage(data: unknown): string | undefined {
+  const d = data as { code?: unknown } | null | undefined
+  const i18n = tryUseNuxtApp()?.$i18n
+  if (!i18n || typeof d?.code !== 'string' || i18n.locale.value === 'en') return undefined
+  const key = `serverCodes.${d.code}`
+  return i18n.te(key) ? i18n.t(key, d as Record<string, unknown>) : undefined
+}

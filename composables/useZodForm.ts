@@ -27,6 +27,6 @@ export function serverFieldErrors(e: unknown): Record<string, string> {
 }
 
 export function serverMessage(e: unknown, fallback = 'Something went wrong. Try again.'): string {
-  const d = (e as { data?: { message?: string; statusMessage?: string } })?.data
-  return localMessage(d?.message || d?.statusMessage || fallback)
+  const d = (e as { data?: { message?: string; statusMessage?: string; data?: unknown } })?.data
+  return codeMessage(d?.data) ?? localMessage(d?.message || d?.statusMessage || fallback)
 }

@@ -184,4 +184,13 @@ describe('messages namespace', () => {
     const literal = english.replace(/^Name may not/, 'may not')
     expect(source.includes(literal), english).toBe(true)
   })
+
+  // The refusals translated by their code (composables/localMessage.ts codeMessage): each code is one the
+  // server really answers with, and each placeholder is a figure its answer carries.
+  const codes = [...en.get('app.json')!].filter(([k]) => k.startsWith('serverCodes.'))
+  it.each(codes)('%s is a code the server answers with', (key, english) => {
+    const code = key.slice('serverCodes.'.length)
+    expect(source.includes(`'${code}'`), code).toBe(true)
+    for (const name of placeholders(english)) expect(source.includes(name ?? ""), `${code} carries ${name}`).toBe(true)
+  })
 })
