@@ -108,3 +108,15 @@ test('the countdown speaks French, red screen and all', async ({ page, context, 
   await expect(page.getByTestId('countdown')).toHaveClass(/bg-black/)
   await speak(context, baseURL!, 'en')
 })
+
+test('a refusal the server explains by its code reads in the page language', async ({ page, context, baseURL }) => {
+  // A new traveller of their own, in German from sign-up; holding seats needs a confirmed address, which this one lacks.
+  const email = `sprache-${Date.now()}@umbrafield.test`
+  const made = await page.request.post('/api/auth/register', { data: { name: 'Greta Beispiel (test)', email, password: 'ein-langes-passwort-1', locale: 'de' } })
+  expect(made.status()).toBe(202)
+  await signInAs(page, email, 'ein-langes-passwort-1')
+  await context.addCookies([{ name: 'umbrafield_locale', value: 'de', url: baseURL! }])
+  await gotoHydrated(page, '/trips/1')
+  await page.getByRole('button', { name: /reservieren und anzahlen/ }).click()
+  await expect(page.getByText('Bitte bestätigen Sie zuerst Ihre E-Mail-Adresse')).toBeVisible()
+})
