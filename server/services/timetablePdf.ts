@@ -70,22 +70,32 @@ export function timetablePdf(t: Timetable, paper: 'a4' | 'letter', briefings: Tr
     // Contacts table
     let y = doc.y + 8
     const cols = [0, 150, 250, 345, 405, 455]
+    // Each column wraps inside its own width: labels run longer in some languages than in English.
+    const colW = (i: number) => (i + 1 < cols.length ? cols[i + 1]! : width) - cols[i]! - 6
     doc.font('ws-semi').fontSize(8).fillColor(MUTED)
-    ;[tr('doc.pdf.colContact'), tr('doc.pdf.colLocal'), 'UTC', '±', tr('doc.pdf.colSunAlt'), tr('doc.pdf.colSunAz')].forEach((h, i) => doc.text(h, left + cols[i]!, y))
-    y += 13
+    const heads = [tr('doc.pdf.colContact'), tr('doc.pdf.colLocal'), 'UTC', '±', tr('doc.pdf.colSunAlt'), tr('doc.pdf.colSunAz')]
+    heads.forEach((h, i) => doc.text(h, left + cols[i]!, y, { width: colW(i) }))
+    y += Math.max(...heads.map((h, i) => doc.heightOfString(h, { width: colW(i) }))) + 3
     for (const k of ['c1', 'c2', 'max', 'c3', 'c4'] as const) {
       const c = s.contacts[k]
       if (!c) continue
       doc.moveTo(left, y - 3).lineTo(left + width, y - 3).lineWidth(0.4).strokeColor('#d2cee8').stroke()
       doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
-      doc.text(plain(words.contact[k]), left + cols[0]!, y)
-      doc.text(c.local.slice(11), left + cols[1]!, y)
-      doc.font('ws').text(utcClock(c.utc), left + cols[2]!, y)
-      doc.text(`${fmt(c.uncertaintySec, 1)} s`, left + cols[3]!, y)
-      doc.text(`${fmt(c.altitudeDeg, 1)}°`, left + cols[4]!, y)
-      doc.text(`${fmt(c.azimuthDeg, 0)}°`, left + cols[5]!, y)
-      y += 16
-      if (c.direction) { doc.fontSize(8).fillColor(MUTED).text(tr('doc.pdf.contactPoint', { dir: contactPlaceIn(c.direction, c.vertexAngleDeg, locale) ?? '', pa: c.positionAngleDeg === undefined ? '' : fmt(c.positionAngleDeg, 0), va: c.vertexAngleDeg === undefined ? '' : fmt(c.vertexAngleDeg, 0) }), left + cols[1]!, y - 3); y += 10 }
+      const label = plain(words.contact[k])
+      const labelH = doc.heightOfString(label, { width: colW(0) })
+      doc.text(label, left + cols[0]!, y, { width: colW(0) })
+      doc.text(c.local.slice(11), left + cols[1]!, y, { width: colW(1), lineBreak: false })
+      doc.font('ws').text(utcClock(c.utc), left + cols[2]!, y, { width: colW(2), lineBreak: false })
+      doc.text(`${fmt(c.uncertaintySec, 1)} s`, left + cols[3]!, y, { width: colW(3), lineBreak: false })
+      doc.text(`${fmt(c.altitudeDeg, 1)}°`, left + cols[4]!, y, { width: colW(4), lineBreak: false })
+      doc.text(`${fmt(c.azimuthDeg, 0)}°`, left + cols[5]!, y, { width: colW(5), lineBreak: false })
+      y += Math.max(16, labelH + 4)
+      if (c.direction) {
+        const point = tr('doc.pdf.contactPoint', { dir: contactPlaceIn(c.direction, c.vertexAngleDeg, locale) ?? '', pa: c.positionAngleDeg === undefined ? '' : fmt(c.positionAngleDeg, 0), va: c.vertexAngleDeg === undefined ? '' : fmt(c.vertexAngleDeg, 0) })
+        const pointW = width - cols[1]!
+        doc.fontSize(8).fillColor(MUTED).text(point, left + cols[1]!, y - 3, { width: pointW })
+        y += doc.heightOfString(point, { width: pointW }) + 1
+      }
     }
     // Sun disc with the C2 and C3 points (vertex angles: measured from the top, counter-clockwise).
     const tableBottom = y
