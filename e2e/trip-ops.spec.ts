@@ -6,7 +6,9 @@ test('an organiser publishes and edits a trip and assigns a guide, who opens its
   await expect(page).toHaveURL(/\/trips$/)
 
   // A fresh draft in the demo workspace (made through the API the New-trip form uses).
-  const ws = (await (await page.request.get('/api/workspaces')).json()).data.find((w: { eclipseId: string }) => w.eclipseId === '2027-08-02')
+  // The seeded demo workspace is the first for this eclipse; other browser tests add workspaces of their own.
+  const ws = ((await (await page.request.get('/api/workspaces')).json()).data as Array<{ id: number; eclipseId: string }>)
+    .filter((w) => w.eclipseId === '2027-08-02').sort((a, b) => a.id - b.id)[0]!
   const sites = (await (await page.request.get(`/api/workspaces/${ws.id}/sites`)).json()).data as Array<{ id: number; name: string }>
   const luxor = sites.find((s) => s.name === 'Luxor West Bank')!
   const made = await page.request.post('/api/trips', { data: {
