@@ -75,29 +75,30 @@ export function voyagePdf(v: VoyageOut, paper: 'a4' | 'letter'): Promise<Buffer>
   // Contacts, ship lying stopped at the intercept
   heading('Contacts at the intercept (ship lying stopped)')
   const cols = [0, 160, 250, 330, 385, 440]
-  const header = (labels: string[]) => {
+  const header = (labels: string[], at: number[]) => {
     const y = doc.y + 2
     doc.font('ws-semi').fontSize(8).fillColor(MUTED)
-    labels.forEach((h, i) => doc.text(h, left + cols[i]!, y, { lineBreak: false }))
+    labels.forEach((h, i) => doc.text(h, left + at[i]!, y, { lineBreak: false }))
     doc.y = y + 13
   }
   const rule = (y: number) => doc.moveTo(left, y - 3).lineTo(left + width, y - 3).lineWidth(0.4).strokeColor('#d2cee8').stroke()
-  header(["CONTACT", "SHIP'S TIME", 'UTC', '±', 'SUN ALT', 'SUN AZ'])
-  for (const k of ANCHORS) {
-    const c = tt.contacts[k]
-    if (!c) continue
+  /** One contact's row: its name, ship's time and UTC, then the figures of this table (text, with a smaller size where given). */
+  const contactRow = (k: (typeof ANCHORS)[number], utc: string, at: number[], figures: Array<{ text: string; size?: number }>) => {
     room(16)
     const y = doc.y
     rule(y)
-    const s = ship(c.utc)
+    const s = ship(utc)
     doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
-    doc.text(plain(tt.words.contact[k]), left + cols[0]!, y, { width: cols[1]! - 6, lineBreak: false, ellipsis: true })
-    doc.text(s.localClock, left + cols[1]!, y, { lineBreak: false })
-    doc.font('ws').text(s.utc, left + cols[2]!, y, { lineBreak: false })
-    doc.text(`${c.uncertaintySec.toFixed(1)} s`, left + cols[3]!, y, { lineBreak: false })
-    doc.text(`${c.altitudeDeg.toFixed(1)}°`, left + cols[4]!, y, { lineBreak: false })
-    doc.text(`${c.azimuthDeg.toFixed(0)}°`, left + cols[5]!, y, { lineBreak: false })
+    doc.text(plain(tt.words.contact[k]), left + at[0]!, y, { width: at[1]! - 6, lineBreak: false, ellipsis: true })
+    doc.text(s.localClock, left + at[1]!, y, { lineBreak: false })
+    doc.font('ws').text(s.utc, left + at[2]!, y, { lineBreak: false })
+    figures.forEach((f, i) => doc.fontSize(f.size ?? 10).text(f.text, left + at[i + 3]!, f.size ? y + 1 : y, { lineBreak: false }))
     doc.y = y + 16
+  }
+  header(["CONTACT", "SHIP'S TIME", 'UTC', '±', 'SUN ALT', 'SUN AZ'], cols)
+  for (const k of ANCHORS) {
+    const c = tt.contacts[k]
+    if (c) contactRow(k, c.utc, cols, [{ text: `${c.uncertaintySec.toFixed(1)} s` }, { text: `${c.altitudeDeg.toFixed(1)}°` }, { text: `${c.azimuthDeg.toFixed(0)}°` }])
   }
   cues('Filter cues (ship lying stopped)', tt.cues, tt.notice)
 
@@ -108,24 +109,10 @@ export function voyagePdf(v: VoyageOut, paper: 'a4' | 'letter'): Promise<Buffer>
     doc.font('ws').fontSize(9.5).fillColor(INK).text(plain(`${tt.words.central ? `${v.underway.durationSec} s of ${tt.words.central} (${v.underway.gainSec >= 0 ? '+' : ''}${v.underway.gainSec} s against lying stopped)` : 'no central phase under way'}. The ship passes the intercept at maximum.`), left, doc.y, { width })
     doc.moveDown(0.3)
     const ucols = [0, 160, 250, 330, 445]
-    const y0 = doc.y + 2
-    doc.font('ws-semi').fontSize(8).fillColor(MUTED)
-    ;["CONTACT", "SHIP'S TIME", 'UTC', 'SHIP AT', 'SUN ALT'].forEach((h, i) => doc.text(h, left + ucols[i]!, y0, { lineBreak: false }))
-    doc.y = y0 + 13
+    header(["CONTACT", "SHIP'S TIME", 'UTC', 'SHIP AT', 'SUN ALT'], ucols)
     for (const k of ANCHORS) {
       const c = u.contacts[k]
-      if (!c) continue
-      room(16)
-      const y = doc.y
-      rule(y)
-      const s = ship(c.utc)
-      doc.font(k === 'c2' || k === 'c3' ? 'ws-bold' : 'ws').fontSize(10).fillColor(INK)
-      doc.text(plain(tt.words.contact[k]), left + ucols[0]!, y, { width: ucols[1]! - 6, lineBreak: false, ellipsis: true })
-      doc.text(s.localClock, left + ucols[1]!, y, { lineBreak: false })
-      doc.font('ws').text(s.utc, left + ucols[2]!, y, { lineBreak: false })
-      doc.fontSize(8.5).text(`${c.lat.toFixed(3)}°, ${c.lon.toFixed(3)}°`, left + ucols[3]!, y + 1, { lineBreak: false })
-      doc.fontSize(10).text(`${c.sunAltitudeDeg.toFixed(1)}°`, left + ucols[4]!, y, { lineBreak: false })
-      doc.y = y + 16
+      if (c) contactRow(k, c.utc, ucols, [{ text: `${c.lat.toFixed(3)}°, ${c.lon.toFixed(3)}°`, size: 8.5 }, { text: `${c.sunAltitudeDeg.toFixed(1)}°` }])
     }
     cues('Filter cues (keeping way)', u.cues, u.notice)
   }
