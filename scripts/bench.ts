@@ -2,7 +2,7 @@
 import * as Astronomy from 'astronomy-engine'
 import autocannon from 'autocannon'
 import { spawn, spawnSync } from 'node:child_process'
-import { existsSync, mkdtempSync } from 'node:fs'
+import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { performance } from 'node:perf_hooks'
@@ -334,15 +334,40 @@ async function cluster() {
     // hold costs more than it only by what booking adds; waiting on other holds would show here.
     const probePath = process.env.BENCH_PROBE || '/api/me'
     const probe: number[] = []
+    // CPU time the two instances spend (user + system, from /proc), per request of each burst: where a
+    // burst is bound by the instances' CPU, the latency ratio follows this one.
+    const cpuMs = () => children.reduce((sum, c) => {
+      const f = readFileSync(`/proc/${c.pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
+      return sum + (Number(f[11]) + Number(f[12])) * 10
+    }, 0)
+    // The whole machine's busy time too (PostgreSQL and this script share the cores with the instances).
+    const machineMs = () => { const f = readFileSync('/proc/stat', 'utf8').split('\n')[0]!.trim().split(/\s+/).slice(1).map(Number); return (f.reduce((a, b) => a + b, 0) - f[3]! - f[4]!) * 10 }
+    const pgMs = () => readdirSync('/proc').filter((d) => /^\d+$/.test(d)).reduce((sum, d) => {
+      try {
+        const [comm, rest] = readFileSync(`/proc/${d}/stat`, 'utf8').split(') ')
+        if (!comm!.endsWith('(postgres')) return sum
+        const f = rest!.split(' ')
+        return sum + (Number(f[11]) + Number(f[12])) * 10
+      } catch { return sum }
+    }, 0)
+    const cpuBeforeProbe = cpuMs()
+    const pgBeforeProbe = pgMs()
+    const machineBeforeProbe = machineMs()
     await Promise.all(cookies.map(async (cookie, i) => {
       const t = performance.now()
       await (await fetch(`${bases[i % 2]!}${probePath}`, { headers: { cookie, 'x-forwarded-for': addr(i) } })).text()
       probe.push(performance.now() - t)
     }))
+    const cpuProbe = (cpuMs() - cpuBeforeProbe) / n
+    const machineProbe = (machineMs() - machineBeforeProbe) / n
+    const pgProbe = (pgMs() - pgBeforeProbe) / n
     probe.sort((a, b) => a - b)
     console.log(`cluster probe ${probePath}: p50 ${percentile(probe, 50).toFixed(0)} ms, p95 ${percentile(probe, 95).toFixed(0)} ms`)
     const times: number[] = []
     const statuses: number[] = []
+    const cpuBeforeHolds = cpuMs()
+    const machineBeforeHolds = machineMs()
+    const pgBeforeHolds = pgMs()
     await Promise.all(cookies.map(async (cookie, i) => {
       const t = performance.now()
       const r = await post(bases[i % 2]!, `/api/trips/${trip.id}/bookings`, { seats: 1 }, cookie, addr(i))
@@ -350,7 +375,11 @@ async function cluster() {
       statuses.push(r.status)
       if (r.status !== 201 && r.status !== 409) console.log(`cluster: unexpected ${r.status} ${(await r.text()).slice(0, 300)}`)
     }))
+    const cpuHold = (cpuMs() - cpuBeforeHolds) / n
+    const machineHold = (machineMs() - machineBeforeHolds) / n
+    const pgHold = (pgMs() - pgBeforeHolds) / n
     times.sort((a, b) => a - b)
+    console.log(`cluster cpu per request: probe ${cpuProbe.toFixed(1)} ms, hold ${cpuHold.toFixed(1)} ms (ratio ${(cpuHold / cpuProbe).toFixed(2)}); PostgreSQL: probe ${pgProbe.toFixed(1)} ms, hold ${pgHold.toFixed(1)} ms; whole machine: probe ${machineProbe.toFixed(1)} ms, hold ${machineHold.toFixed(1)} ms`)
     const q = new pg.Client(url)
     await q.connect()
     const seats = Number((await q.query(`select coalesce(sum(seats), 0) as n from bookings where trip_id = $1 and status in ('held', 'confirmed')`, [trip.id])).rows[0].n)

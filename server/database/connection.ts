@@ -3,6 +3,7 @@ import { dirname, resolve } from 'node:path'
 import SQLite from 'better-sqlite3'
 import { CompiledQuery, Kysely, PostgresDialect, sql, SqliteDialect, SqliteDriver, type DatabaseConnection, type Migration } from 'kysely'
 import pg from 'pg'
+import { preparedName } from './prepared'
 import { isPostgres, isPostgresUrl } from './dialect'
 import { migrations } from './migrations'
 import type { Database } from './schema'
@@ -38,7 +39,15 @@ export function openDatabase(target: string): Kysely<Database> {
     pool.on('error', (e) => console.error('[umbrafield] database connection lost (the pool reconnects):', e.message))
     // The same for a connection that is checked out but between queries (inside a transaction): the
     // query in flight fails on its own, and the pool drops the broken client when it is released.
-    pool.on('connect', (client) => client.on('error', (e) => console.error('[umbrafield] database connection lost in use:', e.message)))
+    pool.on('connect', (client) => {
+      client.on('error', (e) => console.error('[umbrafield] database connection lost in use:', e.message))
+      // Statements compiled once go by name: parsed and planned once per connection (see prepared.ts).
+      const query = client.query.bind(client) as (...a: unknown[]) => unknown
+      client.query = ((text: unknown, values?: unknown, callback?: unknown) => {
+        const name = typeof text === 'string' && callback === undefined ? preparedName(text) : undefined
+        return name ? query({ name, text, values }) : query(text, values, callback)
+      }) as typeof client.query
+    })
     return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) })
   }
   const file = target === ':memory:' ? target : resolve(target)

@@ -9,7 +9,8 @@ import { mailBookingHeld, mailWaitlistOffer, tripKind } from './bookingMail'
 import { dueOf, type BookingRow } from './dues'
 import { BookingStateError, expireCheckoutsOrRefuse, expireOpenCheckouts, ledgerOf, processRefunds, refundableOf, requestRefund, type MoneyConfig } from './money'
 import { NotFoundError } from './planning'
-import { holdInOneStatement } from './holdStatement'
+import { holdFast } from './holdStatement'
+import { countHit, type RateLimit } from './rateLimits'
 import { claimSeats, ensureSeatCounter, releaseSeats, seatsClaimed } from './seatCounter'
 import { getTripRow, lockTripRow, seatUse, tiersOf, TripConflictError, TripRuleError } from './trips'
 import { alertOrganisers } from './operations/alerts'
@@ -90,11 +91,32 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
 }
 
 /**
- * Holds seats for 15 minutes (or the configured hold). The seats are handed out by the counter's one
- * conditional statement, issued last in the transaction: no hold waits for another hold's lock.
+ * Holds seats for 15 minutes (or the configured hold), counting the request against `limit` (429
+ * RateLimitedError over it). PostgreSQL: usually one statement after the sign-in's read (holdFast).
+ * Otherwise, and when the statement leaves it to one (an offer to take up, lapsed holds or offers to
+ * let go first), a transaction whose seats are handed out by the counter's one conditional statement,
+ * issued last: no hold waits for another hold's lock.
  */
-export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
+export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig, limit: RateLimit) {
   if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
+  if (isPostgres(db)) {
+    const r = await holdFast(db, { user, tripId, seats, holdMinutes: cfg.holdMinutes, appUrl: cfg.appUrl, limit, kindOf: (t) => tripKindSoon(db, t) })
+    if (r.held) return { id: r.id, status: 'held' as const, holdExpiresAt: r.holdExpiresAt }
+    if (r.refused === 'not_found') throw new NotFoundError('No such trip')
+    if (r.refused === 'sales_closed') throw salesClosed()
+    if (r.refused === 'hold_exists') throw new HoldExistsError(r.bookingId, r.seats)
+    // Refused for one seat means none was free when the counter was asked; for more, say how many were.
+    if (r.refused === 'sold_out') throw new SoldOutError(seats === 1 ? 0 : r.available)
+  } else {
+    await countHit(db, limit)
+  }
+  return holdInTransaction(db, user, tripId, seats, cfg)
+}
+
+const salesClosed = () => new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
+
+/** The hold's transaction (see createHold); the request has been counted. */
+async function holdInTransaction(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig) {
   const now = iso()
   // Everything the hold needs to know before it starts, in one read.
   const trip = await db.selectFrom('trips').leftJoin('seat_counters', 'seat_counters.trip_id', 'trips.id').selectAll('trips')
@@ -106,12 +128,9 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
       eb.selectFrom('waitlist').select((w) => w.fn.coalesce(w.fn.sum<number>('seats'), w.val(0)).as('n'))
         .where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'offered').as('myOffer'),
     ])
-    // PostgreSQL: the new booking's id comes with the same read (a sequence never hands out a number
-    // twice; one left unused by a refused hold is only a gap), so the hold's statement can link to it.
-    .$if(isPostgres(db), (q) => q.select(sql<string>`nextval(pg_get_serial_sequence('bookings', 'id'))`.as('nextId')))
     .where('trips.id', '=', tripId).executeTakeFirst()
   if (!trip || trip.status !== 'published') throw new NotFoundError('No such trip')
-  if (!trip.sales_open) throw new TripConflictError('sales_closed', 'Sales are closed for this trip: the organiser is not taking new bookings')
+  if (!trip.sales_open) throw salesClosed()
   if (trip.claimed === null) await ensureSeatCounter(db, tripId)
   if (trip.lapsedHold || trip.lapsedOffer) {
     // Lapsed holds and offers still count until let go: let them go first (a short transaction of its own).
@@ -122,20 +141,6 @@ export async function createHold(db: Kysely<Database>, user: User, tripId: numbe
   }
   // What the held e-mail says about the eclipse seen at the trip's site.
   const kind = await tripKindSoon(db, trip)
-  if (isPostgres(db) && Number(trip.myOffer) === 0 && !trip.mine) {
-    // PostgreSQL, no offer to take up and no hold here yet: the whole hold is one statement (see
-    // holdInOneStatement). Otherwise the transaction below says which hold exists, or takes up the offer.
-    const holdExpiresAt = iso(nowMs() + cfg.holdMinutes * 60_000)
-    const r = await holdInOneStatement(db, { id: Number(trip.nextId), user, trip, seats, holdExpiresAt, kind, appUrl: cfg.appUrl })
-    // Refused for one seat means none was free when the counter was asked; for more, say how many were.
-    if (r === 'sold_out') throw new SoldOutError(seats === 1 ? 0 : Math.max(0, trip.seats - ((await seatsClaimed(db, tripId)) ?? 0)))
-    if (r === 'hold_exists') {
-      const mine = await db.selectFrom('bookings').select(['id', 'seats']).where('trip_id', '=', tripId).where('user_id', '=', user.id).where('status', '=', 'held').executeTakeFirstOrThrow()
-      throw new HoldExistsError(mine.id, mine.seats)
-    }
-    // The organisers' alerts were written by the same statement.
-    return { id: r.id, status: 'held' as const, holdExpiresAt }
-  }
   return db.transaction().execute(async (trx) => {
     // PostgreSQL: one hold at a time per traveller and trip (two tabs), never across travellers.
     if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(${tripId}::int, ${user.id}::int)`.execute(trx)

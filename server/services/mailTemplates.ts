@@ -1,4 +1,5 @@
 import { formatMoney } from '../../shared/schemas/trips'
+import { formatMinor } from '../../shared/money/minorUnits'
 import { safetyLines, type LocalKind } from '../../shared/safety/text'
 import { languageTag } from '../../shared/i18n/locales'
 import { translator, type Params, type Translator } from '../../shared/i18n/translate'
@@ -36,8 +37,9 @@ function htmlT(t: ReturnType<typeof translator>) {
 }
 
 /** Money, in the reader's language (minor units and an ISO 4217 code). */
+/** An amount in minor units with the currency's own decimals (EUR 2, JPY 0), in the reader's language. */
 export function money(minor: number, currency: string, locale?: string): string {
-  return new Intl.NumberFormat(languageTag(locale), { style: 'currency', currency: currency.toUpperCase() }).format(minor / 100)
+  return formatMinor(minor, currency, languageTag(locale))
 }
 
 export interface BookingMailData {

@@ -1,4 +1,5 @@
 import type { Kysely, Selectable, Transaction } from 'kysely'
+import { ensureSeatCounter } from './seatCounter'
 import { isPostgres } from '../database/dialect'
 import { localTime } from '../../shared/time/local'
 import { localKindOf, phaseWords } from '../../shared/safety/text'
@@ -91,6 +92,8 @@ export async function publishTrip(db: Kysely<Database>, user: User, id: number) 
   await assertSiteNamesChosen(db, id)
   await db.transaction().execute(async (trx) => {
     await trx.updateTable('trips').set({ status: 'published' }).where('id', '=', id).execute()
+    // Its seat counter, before the first hold asks for it (a rush of first holds need not each make it).
+    await ensureSeatCounter(trx, id)
     await audit(trx, { action: 'trip_publish', actorUserId: user.id, detail: { tripId: id } })
   })
   return { id, status: 'published' as const }

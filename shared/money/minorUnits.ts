@@ -5,10 +5,23 @@
  */
 export function minorUnitDigits(currency: string): number {
   try {
-    return new Intl.NumberFormat('en', { style: 'currency', currency: currency.toUpperCase() }).resolvedOptions().maximumFractionDigits ?? 2
+    return currencyFormat('en', currency).resolvedOptions().maximumFractionDigits ?? 2
   } catch {
     return 2
   }
+}
+
+/** Intl.NumberFormat for a locale and currency, made once (making one costs far more than using it). */
+const formats = new Map<string, Intl.NumberFormat>()
+function currencyFormat(locale: string, currency: string): Intl.NumberFormat {
+  const key = `${locale}|${currency.toUpperCase()}`
+  let f = formats.get(key)
+  if (!f) {
+    f = new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() })
+    if (formats.size > 200) formats.clear()
+    formats.set(key, f)
+  }
+  return f
 }
 
 /**
@@ -27,5 +40,5 @@ export function toMajorUnits(minor: number, currency: string): string {
 
 /** An amount in minor units shown with its currency ("€1,234.50", "¥120,000"), with the currency's own decimals. */
 export function formatMinor(minor: number, currency: string, locale = 'en-GB'): string {
-  return new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() }).format(minor / 10 ** minorUnitDigits(currency))
+  return currencyFormat(locale, currency).format(minor / 10 ** minorUnitDigits(currency))
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { formatMinor } from '../money/minorUnits'
 import { PLAIN_TEXT, plainTextMessage } from './text'
 
 /** `f`: the field in words ("the start date"). */
@@ -81,9 +82,9 @@ export function refundPctOn(tiers: CancellationTierInput[], today: string): numb
   return t ? t.refundPct : 0
 }
 
-/** "€2,490.00" from minor units. */
+/** "€2,490.00" from minor units, with the currency's own decimals ("¥120,000"). */
 export function formatMoney(minor: number, currency: string): string {
-  return new Intl.NumberFormat('en-GB', { style: 'currency', currency: currency.toUpperCase() }).format(minor / 100)
+  return formatMinor(minor, currency, 'en-GB')
 }
 
 export type BookingStatus = 'held' | 'confirmed' | 'cancelled' | 'expired'

@@ -157,6 +157,51 @@ describe(`the hold limit (${TEST_DB})`, () => {
   })
 })
 
+describe(`holds on the trip's current terms (${TEST_DB})`, () => {
+  // On PostgreSQL an instance remembers a trip's terms for a minute and its hold statement checks them
+  // against the row; these edits go straight to the database, as another instance's would.
+  it('a price, title or status changed elsewhere is what the next hold gets', async () => {
+    const org = await signIn(ORGANISER)
+    const tripId = await publishedTrip(org, 3)
+    const [a, b, c] = await Promise.all(['terms-a', 'terms-b', 'terms-c'].map((l) => freshAccount(org, l)))
+    const first = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: a.cookie })
+    expect(first.status).toBe(201)
+    await db.updateTable('trips').set({ price_minor: 2500, deposit_minor: 700, title: 'Renamed trip' }).where('id', '=', tripId).execute()
+    const second = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: b.cookie })
+    expect(second.status).toBe(201)
+    const booking = await db.selectFrom('bookings').select(['price_minor', 'deposit_minor']).where('id', '=', second.body.id).executeTakeFirstOrThrow()
+    expect([booking.price_minor, booking.deposit_minor]).toEqual([2500, 700])
+    const mail = await db.selectFrom('outbox').select(['subject', 'text']).where('booking_id', '=', second.body.id).where('kind', '=', 'booking-held').executeTakeFirstOrThrow()
+    expect(mail.subject).toContain('Renamed trip')
+    expect(mail.text).toContain('€7.00')
+    expect(mail.text).toContain(`/bookings/${second.body.id}`)
+    await db.updateTable('trips').set({ status: 'draft' }).where('id', '=', tripId).execute()
+    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: c.cookie })).status).toBe(404)
+    await db.updateTable('trips').set({ status: 'published', sales_open: 0 }).where('id', '=', tripId).execute()
+    const closed = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: c.cookie })
+    expect([closed.status, closed.body.data?.code]).toEqual([409, 'sales_closed'])
+    // Nothing was written for the refused requests.
+    expect(await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', c.id).execute()).toEqual([])
+  })
+
+  it('a seat given back after the trip was full is held at once, with its e-mail and a counter that matches', async () => {
+    const org = await signIn(ORGANISER)
+    const tripId = await publishedTrip(org, 1)
+    const [a, b] = await Promise.all(['full-a', 'full-b'].map((l) => freshAccount(org, l)))
+    const held = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: a.cookie })
+    expect(held.status).toBe(201)
+    const refused = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: b.cookie })
+    expect([refused.status, refused.body.code]).toEqual([409, 'sold_out'])
+    expect((await api(`/api/bookings/${held.body.id}/cancel`, { method: 'POST', cookie: a.cookie })).status).toBe(200)
+    const again = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: b.cookie })
+    expect(again.status).toBe(201)
+    const mails = await db.selectFrom('outbox').select(['booking_id', 'to_email']).where('trip_id', '=', tripId).where('kind', '=', 'booking-held').orderBy('id').execute()
+    expect(mails.map((m) => [m.booking_id, m.to_email])).toEqual([[held.body.id, a.email], [again.body.id, b.email]])
+    const counter = await db.selectFrom('seat_counters').select('claimed').where('trip_id', '=', tripId).executeTakeFirstOrThrow()
+    expect(Number(counter.claimed)).toBe(1)
+  })
+})
+
 describe('the test clock', () => {
   it('will not move for a body a cross-site page could send (text/plain): an ordinary 404, and the clock stays', async () => {
     const before = Date.parse(await advanceClock(0))

@@ -26,3 +26,17 @@ describe('minor units (ISO 4217)', () => {
     expect(formatMinor(123456, 'eur')).toBe('€1,234.56')
   })
 })
+
+describe('amounts in e-mails and staff alerts', () => {
+  // A JPY trip of ¥120,000 (no minor units): the held e-mail once divided every amount by 100.
+  it('use the currency\'s own decimals in every language', async () => {
+    const { money } = await import('../../server/services/mailTemplates')
+    const { formatMoney } = await import('../../shared/schemas/trips')
+    expect(money(120000, 'jpy', 'en')).toMatch(/120,000/)
+    expect(money(120000, 'jpy', 'de')).toMatch(/120\.000/)
+    expect(money(1250, 'kwd', 'en')).toMatch(/1\.250/)
+    expect(money(249000, 'eur', 'fr')).toMatch(/2\s?490,00/)
+    expect(formatMoney(120000, 'jpy')).toMatch(/120,000/)
+    expect(formatMoney(249000, 'eur')).toBe('€2,490.00')
+  })
+})
