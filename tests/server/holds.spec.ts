@@ -62,6 +62,8 @@ async function freshAccount(org: string, label: string) {
   return { email, id: user.id, cookie: await signIn(email, password) }
 }
 
+type Account = Awaited<ReturnType<typeof freshAccount>>
+
 async function publishedTrip(org: string, seats: number) {
   const trip = await api('/api/trips', { method: 'POST', cookie: org, body: {
     workspaceId: 1, primarySiteId: 4, title: `${seats}-seat trip`, startDate: '2027-07-31', endDate: '2027-08-03', seats,
@@ -163,7 +165,7 @@ describe(`holds on the trip's current terms (${TEST_DB})`, () => {
   it('a price, title or status changed elsewhere is what the next hold gets', async () => {
     const org = await signIn(ORGANISER)
     const tripId = await publishedTrip(org, 3)
-    const [a, b, c] = await Promise.all(['terms-a', 'terms-b', 'terms-c'].map((l) => freshAccount(org, l)))
+    const [a, b, c] = (await Promise.all(['terms-a', 'terms-b', 'terms-c'].map((l) => freshAccount(org, l)))) as [Account, Account, Account]
     const first = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: a.cookie })
     expect(first.status).toBe(201)
     await db.updateTable('trips').set({ price_minor: 2500, deposit_minor: 700, title: 'Renamed trip' }).where('id', '=', tripId).execute()
@@ -187,7 +189,7 @@ describe(`holds on the trip's current terms (${TEST_DB})`, () => {
   it('a seat given back after the trip was full is held at once, with its e-mail and a counter that matches', async () => {
     const org = await signIn(ORGANISER)
     const tripId = await publishedTrip(org, 1)
-    const [a, b] = await Promise.all(['full-a', 'full-b'].map((l) => freshAccount(org, l)))
+    const [a, b] = (await Promise.all(['full-a', 'full-b'].map((l) => freshAccount(org, l)))) as [Account, Account]
     const held = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: a.cookie })
     expect(held.status).toBe(201)
     const refused = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: b.cookie })
