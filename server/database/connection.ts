@@ -41,10 +41,7 @@ export function openDatabase(target: string): Kysely<Database> {
     // query in flight fails on its own, and the pool drops the broken client when it is released.
     pool.on('connect', (client) => {
       client.on('error', (e) => console.error('[umbrafield] database connection lost in use:', e.message))
-      // Statements compiled once go by name: parsed and planned once per connection (see prepared.ts).
-      // Their plan is the generic one from the first call (the server would otherwise plan the first
-      // five calls on each connection anew). Only named statements are affected: nothing else is prepared.
-      client.query('set plan_cache_mode = force_generic_plan').catch((e: Error) => console.error('[umbrafield] plan_cache_mode:', e.message))
+      // Statements compiled once go by name: parsed once per connection (see prepared.ts).
       const query = client.query.bind(client) as (...a: unknown[]) => unknown
       client.query = ((text: unknown, values?: unknown, callback?: unknown) => {
         const name = typeof text === 'string' && callback === undefined ? preparedName(text) : undefined

@@ -98,7 +98,10 @@ export async function offerWaitlist(trx: Db, tripId: number, cfg: BookingConfig)
  * issued last: no hold waits for another hold's lock.
  */
 export async function createHold(db: Kysely<Database>, user: User, tripId: number, seats: number, cfg: BookingConfig, limit: RateLimit) {
-  if (!user.email_confirmed_at) throw new EmailUnconfirmedError()
+  if (!user.email_confirmed_at) {
+    await countHit(db, limit)
+    throw new EmailUnconfirmedError()
+  }
   if (isPostgres(db)) {
     const r = await holdFast(db, { user, tripId, seats, holdMinutes: cfg.holdMinutes, appUrl: cfg.appUrl, limit, kindOf: (t) => tripKindSoon(db, t) })
     if (r.held) return { id: r.id, status: 'held' as const, holdExpiresAt: r.holdExpiresAt }
@@ -141,7 +144,7 @@ async function holdInTransaction(db: Kysely<Database>, user: User, tripId: numbe
   }
   // What the held e-mail says about the eclipse seen at the trip's site.
   const kind = await tripKindSoon(db, trip)
-  return db.transaction().execute(async (trx) => {
+  const hold = async (trx: Transaction<Database>) => {
     // PostgreSQL: one hold at a time per traveller and trip (two tabs), never across travellers.
     if (isPostgres(trx)) await sql`select pg_advisory_xact_lock(${tripId}::int, ${user.id}::int)`.execute(trx)
     // Any hold of this traveller here, lapsed or not (lapsed ones were let go above): bookings_one_hold allows one.
@@ -165,6 +168,12 @@ async function holdInTransaction(db: Kysely<Database>, user: User, tripId: numbe
       throw new SoldOutError(Math.max(0, trip.seats - ((await seatsClaimed(trx, tripId)) ?? 0) + offeredMine))
     }
     return { id: b.id, status: 'held' as const, holdExpiresAt }
+  }
+  // PostgreSQL may end a deadlock with this traveller's other request (one statement on the fast
+  // path, which locks the counter first) by failing this one: then it is tried once more.
+  return db.transaction().execute(hold).catch((e: { code?: string }) => {
+    if (e.code === '40P01') return db.transaction().execute(hold)
+    throw e
   })
 }
 

@@ -130,11 +130,16 @@ export async function holdFast(db: Kysely<Database>, a: {
       const id = checkOnly ? 0 : await takeBookingId(db, conn)
       try {
         const r = await statement(conn, { id, user, trip, seats, limit, counted, kind, appUrl: a.appUrl, holdExpiresAt, checkOnly })
+        // The id goes back only on a clean "not held": after any error it may have been used (a lost
+        // reply to a statement that committed), so it is dropped (a gap in the sequence).
         if (!r.held && !checkOnly) returnBookingId(db, id)
         return r
       } catch (e) {
-        if (!checkOnly) returnBookingId(db, id)
-        if ((e as { code?: string }).code === '23505') return 'raced' as const // bookings_one_hold: the whole statement changed nothing
+        const { code, constraint } = e as { code?: string; constraint?: string }
+        // The whole statement changed nothing when it failed on bookings_one_hold (a second hold of
+        // this traveller racing past the check) or was chosen to end a deadlock (this traveller's
+        // other request on the transaction path, which takes the counter last): the transaction decides.
+        if ((code === '23505' && constraint === 'bookings_one_hold') || code === '40P01') return 'raced' as const
         throw e
       }
     })
@@ -216,7 +221,8 @@ const holdStatement = compiledOnce((db, p: HoldArgs) => {
       .where((eb) => eb.and([
         // Room, on the remembered terms (no row, so no room, if the trip changed).
         eb(eb('claimed', '+', p.seats), '<=', tripAsRemembered(eb, p).select('seats')),
-        eb(eb(eb.selectFrom('rl').select('hits'), '+', othersSum(eb, p.limitKey, slots)), '<=', p.limit),
+        // Within the limit; a request counted by an earlier statement (add 0) is not judged again.
+        eb.or([eb(sql<number>`${p.add}::int`, '=', 0), eb(eb(eb.selectFrom('rl').select('hits'), '+', othersSum(eb, p.limitKey, slots)), '<=', p.limit)]),
         eb.not(eb.exists(eb.selectFrom('bookings').select('id').where('trip_id', '=', p.tripId).where('status', '=', 'held')
           .where((b) => b.or([b('user_id', '=', p.userId), b('hold_expires_at', '<=', p.now)])))),
         eb.not(eb.exists(eb.selectFrom('waitlist').select('id').where('trip_id', '=', p.tripId).where('status', '=', 'offered')
@@ -329,7 +335,8 @@ async function statement(db: Kysely<Database>, a: {
   return {
     held: false as const,
     slots,
-    overLimit: Number(r.limitHits) + Number(r.limitOthers ?? 0) > limit.limit,
+    // Judged only by the statement that counted the request; the take-back is from that statement's slot.
+    overLimit: !a.counted && Number(r.limitHits) + Number(r.limitOthers ?? 0) > limit.limit,
     limitOldest: r.limitOldest,
     fresh: !!r.fresh,
     tripSeats: Number(r.tripSeats),

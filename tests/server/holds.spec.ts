@@ -162,28 +162,38 @@ describe(`the hold limit (${TEST_DB})`, () => {
 describe(`holds on the trip's current terms (${TEST_DB})`, () => {
   // On PostgreSQL an instance remembers a trip's terms for a minute and its hold statement checks them
   // against the row; these edits go straight to the database, as another instance's would.
-  it('a price, title or status changed elsewhere is what the next hold gets', async () => {
+  it('a price, title, currency or status changed elsewhere is what the next hold gets', async () => {
     const org = await signIn(ORGANISER)
-    const tripId = await publishedTrip(org, 3)
-    const [a, b, c] = (await Promise.all(['terms-a', 'terms-b', 'terms-c'].map((l) => freshAccount(org, l)))) as [Account, Account, Account]
-    const first = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: a.cookie })
-    expect(first.status).toBe(201)
-    await db.updateTable('trips').set({ price_minor: 2500, deposit_minor: 700, title: 'Renamed trip' }).where('id', '=', tripId).execute()
-    const second = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: b.cookie })
+    const tripId = await publishedTrip(org, 5)
+    const [a, b, c, d, e] = (await Promise.all(['terms-a', 'terms-b', 'terms-c', 'terms-d', 'terms-e'].map((l) => freshAccount(org, l)))) as Account[] as [Account, Account, Account, Account, Account]
+    const holdFor = (who: Account) => api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: who.cookie })
+    const bookingOf = (id: number) => db.selectFrom('bookings').select(['price_minor', 'deposit_minor', 'currency']).where('id', '=', id).executeTakeFirstOrThrow()
+    const heldMail = (id: number) => db.selectFrom('outbox').select(['subject', 'text']).where('booking_id', '=', id).where('kind', '=', 'booking-held').executeTakeFirstOrThrow()
+    expect((await holdFor(a)).status).toBe(201)
+    // One change at a time, each read by the next hold.
+    await db.updateTable('trips').set({ price_minor: 2500, deposit_minor: 700 }).where('id', '=', tripId).execute()
+    const second = await holdFor(b)
     expect(second.status).toBe(201)
-    const booking = await db.selectFrom('bookings').select(['price_minor', 'deposit_minor']).where('id', '=', second.body.id).executeTakeFirstOrThrow()
-    expect([booking.price_minor, booking.deposit_minor]).toEqual([2500, 700])
-    const mail = await db.selectFrom('outbox').select(['subject', 'text']).where('booking_id', '=', second.body.id).where('kind', '=', 'booking-held').executeTakeFirstOrThrow()
-    expect(mail.subject).toContain('Renamed trip')
-    expect(mail.text).toContain('€7.00')
-    expect(mail.text).toContain(`/bookings/${second.body.id}`)
+    expect(await bookingOf(second.body.id)).toEqual({ price_minor: 2500, deposit_minor: 700, currency: 'eur' })
+    const secondMail = await heldMail(second.body.id)
+    expect(secondMail.text).toContain('€7.00')
+    expect(secondMail.text).toContain(`/bookings/${second.body.id}`)
+    await db.updateTable('trips').set({ title: 'Renamed trip' }).where('id', '=', tripId).execute()
+    const third = await holdFor(c)
+    expect(third.status).toBe(201)
+    expect((await heldMail(third.body.id)).subject).toContain('Renamed trip')
+    await db.updateTable('trips').set({ currency: 'gbp' }).where('id', '=', tripId).execute()
+    const fourth = await holdFor(d)
+    expect(fourth.status).toBe(201)
+    expect((await bookingOf(fourth.body.id)).currency).toBe('gbp')
+    expect((await heldMail(fourth.body.id)).text).toContain('£7.00')
     await db.updateTable('trips').set({ status: 'draft' }).where('id', '=', tripId).execute()
-    expect((await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: c.cookie })).status).toBe(404)
+    expect((await holdFor(e)).status).toBe(404)
     await db.updateTable('trips').set({ status: 'published', sales_open: 0 }).where('id', '=', tripId).execute()
-    const closed = await api(`/api/trips/${tripId}/bookings`, { method: 'POST', body: { seats: 1 }, cookie: c.cookie })
+    const closed = await holdFor(e)
     expect([closed.status, closed.body.data?.code]).toEqual([409, 'sales_closed'])
     // Nothing was written for the refused requests.
-    expect(await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', c.id).execute()).toEqual([])
+    expect(await db.selectFrom('bookings').select('id').where('trip_id', '=', tripId).where('user_id', '=', e.id).execute()).toEqual([])
   })
 
   it('a seat given back after the trip was full is held at once, with its e-mail and a counter that matches', async () => {
@@ -201,6 +211,11 @@ describe(`holds on the trip's current terms (${TEST_DB})`, () => {
     expect(mails.map((m) => [m.booking_id, m.to_email])).toEqual([[held.body.id, a.email], [again.body.id, b.email]])
     const counter = await db.selectFrom('seat_counters').select('claimed').where('trip_id', '=', tripId).executeTakeFirstOrThrow()
     expect(Number(counter.claimed)).toBe(1)
+    if (TEST_DB === 'PostgreSQL') {
+      // Each of b's two requests counted once against the hold limit, whichever statements answered them.
+      const hits = await db.selectFrom('rate_limit_hits').select('hits').where('key', '=', `hold:${b.id}`).execute()
+      expect(hits.reduce((n, r) => n + Number(r.hits), 0)).toBe(2)
+    }
   })
 })
 
