@@ -9,7 +9,7 @@ import { DEFAULT_ALERT_MODE, holdAlertSummary } from './operations/alerts'
 import { alertMail } from './operations/operationsMail'
 import { outboxValues } from './outbox'
 import { ensureSeatCounter } from './seatCounter'
-import { countHit, hitUpsert, othersSum, refuseCounted, windowCounts, windowSlots, type RateLimit, type WindowSlots } from './rateLimits'
+import { countHit, hitUpsert, othersSum, refuseCounted, windowCounts, windowSlots, type RateLimit, type SlotBounds } from './rateLimits'
 
 /** The trip's fields a hold uses: whether it sells, its seats, and what the e-mails and the booking say. */
 export type HoldTrip = Pick<Selectable<TripsTable>, 'id' | 'status' | 'sales_open' | 'seats' | 'title' | 'price_minor' | 'deposit_minor' | 'currency' | 'eclipse_id' | 'primary_site_id'>
@@ -35,7 +35,7 @@ const sells = (t: HoldTrip | undefined): t is HoldTrip => !!t && t.status === 'p
  * The trip as remembered, or read now. A trip that does not sell is answered from a fresh read only:
  * a remembered one is read again first, so a refusal never rests on an old copy.
  */
-export async function holdTrip(db: Kysely<Database>, tripId: number, opts: { fresh?: boolean } = {}): Promise<HoldTrip | undefined> {
+async function holdTrip(db: Kysely<Database>, tripId: number, opts: { fresh?: boolean } = {}): Promise<HoldTrip | undefined> {
   let memos = tripMemos.get(db)
   if (!memos) tripMemos.set(db, memos = new Map())
   const now = nowMs()
@@ -211,8 +211,11 @@ function tripAsRemembered<DB extends Database, TB extends keyof DB>(eb: Expressi
     .where('eclipse_id', '=', p.eclipseId).where('primary_site_id', '=', p.siteId)
 }
 
+/** The limit's slot bounds among the statement's arguments. */
+const boundsOf = (p: HoldArgs): SlotBounds => ({ slotStart: p.slotStart, from: p.limitFrom, expiresAt: p.limitExpiresAt })
+
 const holdStatement = compiledOnce((db, p: HoldArgs) => {
-  const slots: WindowSlots = { slotMs: 0, current: 0, now: 0, slotStart: p.slotStart, from: p.limitFrom, expiresAt: p.limitExpiresAt }
+  const slots = boundsOf(p)
   const delivery = sql<'immediate' | 'digest'>`coalesce(alert_preferences.mode, ${DEFAULT_ALERT_MODE})`
   return db
     .with('rl', (w) => hitUpsert(w, p.limitKey, slots, p.add))
@@ -268,13 +271,13 @@ const holdStatement = compiledOnce((db, p: HoldArgs) => {
  * statement follows, counting nothing more.
  */
 const checkStatement = compiledOnce((db, p: HoldArgs) => {
-  const slots: WindowSlots = { slotMs: 0, current: 0, now: 0, slotStart: p.slotStart, from: p.limitFrom, expiresAt: p.limitExpiresAt }
+  const slots = boundsOf(p)
   return db.with('rl', (w) => hitUpsert(w, p.limitKey, slots, p.add))
     .selectNoFrom((eb) => [sql<string>`0`.as('held'), ...observed(eb, p, slots)])
 })
 
 /** What holdFast decides on: the request's count, the trip's terms, seats, lapses, and the traveller's hold and offer. */
-function observed<DB extends Database, TB extends keyof DB>(ebIn: ExpressionBuilder<DB, TB>, p: HoldArgs, slots: WindowSlots) {
+function observed<DB extends Database, TB extends keyof DB>(ebIn: ExpressionBuilder<DB, TB>, p: HoldArgs, slots: SlotBounds) {
   const eb = ebIn as unknown as ExpressionBuilder<Database & { rl: { hits: number } }, never>
   return [
     eb.selectFrom('rl').select('hits').as('limitHits'),

@@ -30,6 +30,9 @@ export class RateLimitedError extends Error {
 /** Where a request at `now` falls: its slot (1/60 of the window) and the window's oldest slot. */
 export interface WindowSlots { slotMs: number; current: number; slotStart: string; from: string; expiresAt: string; now: number }
 
+/** What the statements below need of WindowSlots: the slot's start, the window's start, the row's expiry. */
+export type SlotBounds = Pick<WindowSlots, 'slotStart' | 'from' | 'expiresAt'>
+
 export function windowSlots(windowMs: number, now = nowMs()): WindowSlots {
   const slotMs = windowMs / SHARED_SLOTS
   const current = Math.floor(now / slotMs)
@@ -45,7 +48,7 @@ export function windowSlots(windowMs: number, now = nowMs()): WindowSlots {
  * The upsert counting one hit in the current slot, for a CTE; RETURNING the slot's new count as
  * `hits`. With `add` 0 it counts nothing and only reads the slot (a request counted earlier, asking again).
  */
-export function hitUpsert(w: QueryCreator<Database>, key: string, s: WindowSlots, add: 0 | 1 = 1) {
+export function hitUpsert(w: QueryCreator<Database>, key: string, s: SlotBounds, add: 0 | 1 = 1) {
   return w.insertInto('rate_limit_hits')
     .values({ key, window_start: s.slotStart, hits: add, expires_at: s.expiresAt })
     .onConflict((oc) => oc.columns(['key', 'window_start']).doUpdateSet((eb) => ({ hits: eb('rate_limit_hits.hits', '+', add) })))
@@ -58,19 +61,21 @@ export function hitUpsert(w: QueryCreator<Database>, key: string, s: WindowSlots
  * from hitUpsert's RETURNING and is left out here; a slot that straddles the window's start is counted
  * in full (the count errs on the side of refusing), as in LocalLimiter.
  */
-export function windowCounts<DB extends Database, TB extends keyof DB>(eb: ExpressionBuilder<DB, TB>, key: string, s: WindowSlots) {
-  const e = eb as unknown as ExpressionBuilder<Database, never>
+export function windowCounts<DB extends Database, TB extends keyof DB>(eb: ExpressionBuilder<DB, TB>, key: string, s: SlotBounds) {
   return [
     othersSum(eb, key, s).as('limitOthers'),
-    e.selectFrom('rate_limit_hits').select((q) => q.fn.min<string>('window_start').as('w'))
-      .where('key', '=', key).where('window_start', '>=', s.from).where('window_start', '<>', s.slotStart).as('limitOldest'),
+    otherSlots(eb, key, s).select((q) => q.fn.min<string>('window_start').as('w')).as('limitOldest'),
   ] as const
 }
 
 /** The sum of the window's other slots (see windowCounts), as a subquery. */
-export function othersSum<DB extends Database, TB extends keyof DB>(eb: ExpressionBuilder<DB, TB>, key: string, s: WindowSlots) {
-  const e = eb as unknown as ExpressionBuilder<Database, never>
-  return e.selectFrom('rate_limit_hits').select((q) => q.fn.coalesce(q.fn.sum<number>('hits'), q.val(0)).as('n'))
+export function othersSum<DB extends Database, TB extends keyof DB>(eb: ExpressionBuilder<DB, TB>, key: string, s: SlotBounds) {
+  return otherSlots(eb, key, s).select((q) => q.fn.coalesce(q.fn.sum<number>('hits'), q.val(0)).as('n'))
+}
+
+/** The rows of the window's slots other than the current one. */
+function otherSlots<DB extends Database, TB extends keyof DB>(eb: ExpressionBuilder<DB, TB>, key: string, s: SlotBounds) {
+  return (eb as unknown as ExpressionBuilder<Database, never>).selectFrom('rate_limit_hits')
     .where('key', '=', key).where('window_start', '>=', s.from).where('window_start', '<>', s.slotStart)
 }
 
@@ -105,4 +110,3 @@ export async function countHit(db: Kysely<Database>, rl: RateLimit): Promise<voi
 export async function pruneRateLimits(db: Kysely<Database>): Promise<void> {
   await db.deleteFrom('rate_limit_hits').where('expires_at', '<', nowIso()).execute()
 }
-
